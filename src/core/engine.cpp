@@ -1,0 +1,237 @@
+#include "core/engine.hpp"
+
+#include <tbb/enumerable_thread_specific.h>
+#include <tbb/parallel_for.h>
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <random>
+
+#include "core/exact_patch.hpp"
+#include "core/rng.hpp"
+
+namespace tessera {
+
+struct Engine::Scratch {
+    tbb::enumerable_thread_specific<ExactPatch> exact;
+    // Migrants leaving each patch: [patch][direction][compartment][trait].
+    std::vector<std::int64_t> outbox;
+    std::vector<std::uint64_t> lost_per_patch;
+    std::vector<std::uint64_t> sent_per_patch;
+
+    Scratch(const TraitGrid& g, const RateTable& r, double K) : exact(g, r, K) {}
+};
+
+namespace {
+
+bool has_cells(const std::int64_t* a, const std::int64_t* d, int traits) {
+    for (int i = 0; i < traits; ++i) {
+        if (a[i] != 0 || d[i] != 0) return true;
+    }
+    return false;
+}
+
+// Snap times that differ only by rounding, so that output times are met exactly.
+bool reached(double t, double target) { return t >= target - 1e-12 * std::max(1.0, std::fabs(target)); }
+
+}  // namespace
+
+Engine::Engine(const Scenario& scenario, std::uint32_t replicate)
+    : scenario_(scenario),
+      traits_(scenario.dormancy_axis, scenario.transfer_axis),
+      rates_(traits_, scenario.rates, scenario.K),
+      lattice_(scenario.width, scenario.height, traits_.size()),
+      timeline_(scenario_),
+      neighbourhood_(scenario.width, scenario.height, scenario.neighbourhood, scenario.boundary),
+      replicate_(replicate),
+      patch_counts_(lattice_.patches()),
+      scratch_(std::make_unique<Scratch>(traits_, rates_, scenario.K)) {
+    if (scenario_.habitats.empty()) scenario_.habitats.push_back(Habitat{});
+    if (scenario_.habitat_of_patch.size() != lattice_.patches()) {
+        scenario_.habitat_of_patch.assign(lattice_.patches(), 0);
+    }
+    class_conditions_ = timeline_.at(0.0);
+    inoculate();
+}
+
+Engine::~Engine() = default;
+
+double Engine::time_logK() const { return time_ / std::log(scenario_.K); }
+double Engine::until() const { return scenario_.to_plain(scenario_.until); }
+
+void Engine::inoculate() {
+    for (const Inoculum& in : scenario_.inocula) {
+        const auto trait = traits_.find(in.dormancy, in.transfer);
+        if (!trait) continue;  // the loader rejects traits off the grid
+        for (int row = 0; row < lattice_.height(); ++row) {
+            for (int col = 0; col < lattice_.width(); ++col) {
+                const std::size_t p = lattice_.patch_at(col, row);
+                const int cls = scenario_.habitat_of_patch[p];
+                bool here = false;
+                switch (in.where) {
+                    case Inoculum::Where::all: here = true; break;
+                    case Inoculum::Where::habitat: here = scenario_.habitats[cls].name == in.habitat; break;
+                    case Inoculum::Where::patch: here = col == in.x0 && row == in.y0; break;
+                    case Inoculum::Where::rect:
+                        here = col >= std::min(in.x0, in.x1) && col <= std::max(in.x0, in.x1) &&
+                               row >= std::min(in.y0, in.y1) && row <= std::max(in.y0, in.y1);
+                        break;
+                }
+                const double capacity = class_conditions_[cls].capacity;
+                if (!here || capacity <= 0) continue;
+                const double active =
+                    in.exponent ? std::pow(scenario_.K * capacity, *in.exponent) : in.active.value_or(0.0);
+                lattice_.active(p)[*trait] += static_cast<std::int64_t>(std::llround(active));
+                lattice_.dormant(p)[*trait] += static_cast<std::int64_t>(std::llround(in.dormant));
+            }
+        }
+    }
+}
+
+void Engine::run(Observer& observer, const std::atomic<bool>* stop) {
+    const double end = until();
+    const double every[3] = {scenario_.to_plain(scenario_.output_every),
+                             scenario_.to_plain(scenario_.fields_every),
+                             scenario_.to_plain(scenario_.frames_every)};
+    std::uint64_t next[3] = {0, 0, 0};  // index j of the next output time j * every
+    for (int k = 0; k < 3; ++k) {
+        if (every[k] > 0) next[k] = static_cast<std::uint64_t>(std::floor(time_ / every[k] + 1e-9));
+    }
+    for (;;) {
+        unsigned due = 0;
+        for (int k = 0; k < 3; ++k) {
+            if (every[k] > 0 && reached(time_, static_cast<double>(next[k]) * every[k])) {
+                due |= 1u << k;
+                ++next[k];
+            }
+        }
+        const bool finished = reached(time_, end);
+        if (finished) due |= series_output | (every[1] > 0 ? unsigned{fields_output} : 0u);
+        if (due) observer.observe(*this, due);
+        if (finished || (stop && stop->load())) return;
+
+        double target = end;
+        for (int k = 0; k < 3; ++k) {
+            if (every[k] > 0) target = std::min(target, static_cast<double>(next[k]) * every[k]);
+        }
+        advance_to(target);
+    }
+}
+
+void Engine::advance_to(double t_end) {
+    while (!reached(time_, t_end)) {
+        double next = std::min({t_end, time_ + scenario_.sync, timeline_.next_change_after(time_)});
+        if (reached(next, t_end)) next = t_end;
+        step(next - time_);
+        time_ = next;
+    }
+    time_ = std::max(time_, t_end);
+}
+
+void Engine::step(double dt) {
+    class_conditions_ = timeline_.at(time_);
+    local_phase(dt);
+    if (lattice_.patches() > 1 &&
+        (scenario_.rates.migration > 0 || scenario_.rates.migration_dormant > 0)) {
+        migration_phase(dt);
+    }
+    ++step_;
+}
+
+void Engine::local_phase(double dt) {
+    const int T = traits_.size();
+    const StreamKey base{scenario_.seed, replicate_, 0};
+    tbb::parallel_for(std::size_t{0}, lattice_.patches(), [&](std::size_t p) {
+        std::int64_t* a = lattice_.active(p);
+        std::int64_t* d = lattice_.dormant(p);
+        if (!has_cells(a, d, T)) return;  // idle patches cost a scan of their counts
+        StreamKey key = base;
+        key.patch = static_cast<std::uint32_t>(p);
+        Rng rng(key, step_, Phase::local);
+        scratch_->exact.local().advance(a, d, conditions(p), dt, rng, patch_counts_[p]);
+    });
+}
+
+void Engine::migration_phase(double dt) {
+    const int T = traits_.size();
+    const int dirs = neighbourhood_.size();
+    const std::size_t P = lattice_.patches();
+    const std::size_t per_patch = static_cast<std::size_t>(dirs) * 2 * T;
+    Scratch& s = *scratch_;
+    s.outbox.assign(P * per_patch, 0);
+    s.lost_per_patch.assign(P, 0);
+    s.sent_per_patch.assign(P, 0);
+    const double rate[2] = {scenario_.rates.migration, scenario_.rates.migration_dormant};
+    const StreamKey base{scenario_.seed, replicate_, 0};
+
+    // Emigration: each patch writes only its own counts and its own outbox.
+    tbb::parallel_for(std::size_t{0}, P, [&](std::size_t p) {
+        std::int64_t* counts[2] = {lattice_.active(p), lattice_.dormant(p)};
+        if (!has_cells(counts[0], counts[1], T)) return;
+        const PatchConditions& here = conditions(p);
+        StreamKey key = base;
+        key.patch = static_cast<std::uint32_t>(p);
+        Rng rng(key, step_, Phase::emigration);
+        const int col = static_cast<int>(p % lattice_.width());
+        const int row = static_cast<int>(p / lattice_.width());
+        for (int c = 0; c < 2; ++c) {
+            const double leave = -std::expm1(-rate[c] * here.permeability * dt);
+            if (!(leave > 0)) continue;
+            for (int i = 0; i < T; ++i) {
+                if (counts[c][i] == 0) continue;
+                std::int64_t remaining =
+                    std::binomial_distribution<std::int64_t>(counts[c][i], leave)(rng);
+                // Split the leavers uniformly over the directions (sequential binomials).
+                for (int dir = 0; dir < dirs && remaining > 0; ++dir) {
+                    const std::int64_t n =
+                        dir + 1 == dirs ? remaining
+                                        : std::binomial_distribution<std::int64_t>(
+                                              remaining, 1.0 / (dirs - dir))(rng);
+                    remaining -= n;
+                    if (n == 0) continue;
+                    const auto to = neighbourhood_.step(col, row, dir);
+                    if (to.kind == Neighbourhood::Target::off_edge) {
+                        if (scenario_.boundary != Boundary::absorbing) continue;  // reflected
+                        counts[c][i] -= n;
+                        s.lost_per_patch[p] += static_cast<std::uint64_t>(n);
+                        continue;
+                    }
+                    if (conditions(static_cast<std::size_t>(to.patch)).capacity <= 0) continue;  // wall
+                    counts[c][i] -= n;
+                    s.outbox[p * per_patch + (static_cast<std::size_t>(dir) * 2 + c) * T + i] += n;
+                    s.sent_per_patch[p] += static_cast<std::uint64_t>(n);
+                }
+            }
+        }
+    });
+
+    // Immigration: each patch reads what its neighbours sent towards it, in direction order.
+    tbb::parallel_for(std::size_t{0}, P, [&](std::size_t q) {
+        const int col = static_cast<int>(q % lattice_.width());
+        const int row = static_cast<int>(q / lattice_.width());
+        std::int64_t* counts[2] = {lattice_.active(q), lattice_.dormant(q)};
+        for (int dir = 0; dir < dirs; ++dir) {
+            const auto from = neighbourhood_.step(col, row, Neighbourhood::opposite(dir));
+            if (from.kind != Neighbourhood::Target::patch) continue;
+            const std::int64_t* box =
+                s.outbox.data() + static_cast<std::size_t>(from.patch) * per_patch;
+            for (int c = 0; c < 2; ++c) {
+                const std::int64_t* in = box + (static_cast<std::size_t>(dir) * 2 + c) * T;
+                for (int i = 0; i < T; ++i) counts[c][i] += in[i];
+            }
+        }
+    });
+    for (std::size_t p = 0; p < P; ++p) {
+        lost_ += s.lost_per_patch[p];
+        migrants_ += s.sent_per_patch[p];
+    }
+}
+
+EventCounts Engine::totals() const {
+    EventCounts sum;
+    for (const EventCounts& c : patch_counts_) sum += c;
+    return sum;
+}
+
+}  // namespace tessera

@@ -1,0 +1,99 @@
+// The time loop. A run is a sequence of synchronisation steps of at most run.sync plain
+// time units; every output time and every schedule switch is a step boundary. Each step:
+//
+//   1. local phase:       parallel over patches, each runs its own local events (exact);
+//   2. emigration phase:  parallel over patches, each draws its leaving cells into its own
+//                         outgoing buffer (binomial, then multinomial over neighbours);
+//   3. immigration phase: parallel over patches, each adds what its neighbours sent, read
+//                         in a fixed direction order.
+//
+// Random numbers are keyed by (seed, replicate, patch) and countered by (step, phase), so
+// the result does not depend on the number of threads. The engine knows nothing of files or
+// windows: observers are handed a read-only engine at output times.
+#pragma once
+
+#include <atomic>
+#include <cstdint>
+#include <memory>
+#include <vector>
+
+#include "core/event_counts.hpp"
+#include "core/habitat_timeline.hpp"
+#include "core/lattice.hpp"
+#include "core/neighbourhood.hpp"
+#include "core/patch_conditions.hpp"
+#include "core/rate_table.hpp"
+#include "core/scenario.hpp"
+#include "core/trait_grid.hpp"
+
+namespace tessera {
+
+class Engine;
+
+// What is due at an output time (a bit set).
+enum OutputKind : unsigned { series_output = 1, fields_output = 2, frames_output = 4 };
+
+class Observer {
+public:
+    virtual ~Observer() = default;
+    virtual void observe(const Engine& engine, unsigned kinds) = 0;
+};
+
+class Engine {
+public:
+    Engine(const Scenario& scenario, std::uint32_t replicate = 0);
+    ~Engine();
+
+    // Runs from the current time to run.until, handing the state to `observer` at t = 0 and
+    // at every output time. Stops early (after a whole step) when `stop` becomes true.
+    void run(Observer& observer, const std::atomic<bool>* stop = nullptr);
+
+    // Advances to plain time `t_end` in steps of at most run.sync.
+    void advance_to(double t_end);
+
+    const Scenario& scenario() const { return scenario_; }
+    const TraitGrid& traits() const { return traits_; }
+    const RateTable& rates() const { return rates_; }
+    const Lattice& lattice() const { return lattice_; }
+    Lattice& lattice() { return lattice_; }
+    std::uint32_t replicate() const { return replicate_; }
+
+    double time() const { return time_; }  // plain
+    double time_logK() const;               // t / ln K
+    double until() const;                   // plain end time of the run
+    std::uint64_t step_number() const { return step_; }
+    // Conditions of a patch's habitat class right now.
+    const PatchConditions& conditions(std::size_t patch) const {
+        return class_conditions_[scenario_.habitat_of_patch[patch]];
+    }
+
+    EventCounts totals() const;                     // summed over patches, in patch order
+    std::uint64_t lost() const { return lost_; }    // through absorbing edges
+    std::uint64_t migrants() const { return migrants_; }
+
+private:
+    void step(double dt);
+    void local_phase(double dt);
+    void migration_phase(double dt);
+    void inoculate();
+
+    Scenario scenario_;
+    TraitGrid traits_;
+    RateTable rates_;
+    Lattice lattice_;
+    HabitatTimeline timeline_;
+    Neighbourhood neighbourhood_;
+    std::uint32_t replicate_;
+
+    double time_ = 0.0;
+    std::uint64_t step_ = 0;
+    std::vector<PatchConditions> class_conditions_;
+    std::vector<EventCounts> patch_counts_;
+    std::uint64_t lost_ = 0;
+    std::uint64_t migrants_ = 0;
+
+    struct Scratch;
+    std::unique_ptr<Scratch> scratch_;
+};
+
+}  // namespace tessera

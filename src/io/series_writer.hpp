@@ -1,0 +1,20 @@
+// series.csv: one row per output time per trait, lattice totals:
+// replicate,t,t_logK,dormancy,transfer,active,dormant,exponent
+// with exponent = log(1 + active + dormant) / log(K). Traits in the fixed order
+// (dormancy level major, transfer level minor).
+#pragma once
+
+#include <ostream>
+#include <string>
+
+#include "core/engine.hpp"
+
+namespace tessera {
+
+// The header line, with its newline.
+std::string series_header();
+
+// Appends the rows of the engine's current state to `out`.
+void append_series_rows(const Engine& engine, std::string& out);
+
+}  // namespace tessera
