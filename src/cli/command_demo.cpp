@@ -1,0 +1,47 @@
+#include <filesystem>
+#include <iostream>
+
+#include "cli/commands.hpp"
+#include "cli/run_session.hpp"
+#include "io/scenario_loader.hpp"
+
+namespace fs = std::filesystem;
+
+namespace tessera::cli {
+
+namespace {
+
+// The bundled scenarios: next to the source tree when run from a build directory.
+fs::path demo_scenario() {
+    const fs::path built_in = fs::path(TESSERA_MAPS_DIR) / "demo" / "scenario.toml";
+    if (fs::exists(built_in)) return built_in;
+    return fs::path("maps") / "demo" / "scenario.toml";
+}
+
+}  // namespace
+
+int demo_command(const DemoOptions& o) {
+    const fs::path file = demo_scenario();
+    Scenario scenario;
+    try {
+        scenario = load_scenario(file.string());
+    } catch (const ScenarioError& e) {
+        for (const Diagnostic& d : e.diagnostics()) std::cerr << d.to_string() << "\n";
+        return 1;  // the bundled scenario is ours: a failure here is an internal error
+    }
+    if (o.threads) scenario.threads = *o.threads;
+    if (!o.quiet) {
+        std::cout << "tessera demo: " << scenario.title << "\n"
+                  << "scenario: " << file.string() << "\n";
+    }
+    const int code = run_session(scenario, o.out, {1, o.quiet, true});
+    if (code == 0 && !o.quiet) {
+        std::cout << "\nWhat to look at:\n"
+                  << "  " << o.out << "/series.csv              per-trait totals over time (t and t/lnK)\n"
+                  << "  " << o.out << "/scenario.resolved.toml  every setting used; rerun with\n"
+                  << "      tessera run " << o.out << "/scenario.resolved.toml --out my-run\n";
+    }
+    return code;
+}
+
+}  // namespace tessera::cli

@@ -1,0 +1,38 @@
+// One function per subcommand; main.cpp only parses the command line and calls these.
+// Each returns the process exit code: 0 success, 2 bad input or usage, 1 internal error.
+#pragma once
+
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace tessera::cli {
+
+struct RunOptions {
+    std::string scenario;
+    std::string out;  // "" = <scenario name>-run in the current directory
+    std::vector<std::string> sets;
+    std::optional<std::uint64_t> seed;
+    std::optional<int> threads;
+    int replicates = 1;
+    bool quiet = false;
+    bool overwrite = false;
+};
+
+struct CheckOptions {
+    std::string scenario;
+    std::vector<std::string> sets;
+};
+
+struct DemoOptions {
+    std::string out = "tessera-demo";
+    std::optional<int> threads;
+    bool quiet = false;
+};
+
+int run_command(const RunOptions& options);
+int check_command(const CheckOptions& options);
+int demo_command(const DemoOptions& options);
+
+}  // namespace tessera::cli

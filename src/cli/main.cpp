@@ -1,0 +1,61 @@
+// tessera: the command line. It parses options and calls one function per subcommand.
+#include <CLI/CLI.hpp>
+
+#include <exception>
+#include <iostream>
+
+#include "cli/commands.hpp"
+#include "version.hpp"
+
+int main(int argc, char** argv) {
+    using namespace tessera::cli;
+    CLI::App app{
+        "tessera: stochastic simulation of bacterial populations with dormancy, conjugative\n"
+        "transfer and mutation on a lattice of biofilm patches. A research model, not guidance\n"
+        "for clinical or environmental decisions."};
+    app.set_version_flag("--version", std::string("tessera ") + tessera::version + " (build " + tessera::build_id + ")");
+    app.require_subcommand(1);
+    app.footer("Run 'tessera COMMAND --help' for the options of a command. Exit codes: 0 success, 2 bad input, 1 internal error.");
+
+    RunOptions run;
+    auto* run_cmd = app.add_subcommand("run", "Run a scenario headless and write its outputs to a directory");
+    run_cmd->add_option("scenario", run.scenario, "Scenario file (TOML)")->required();
+    run_cmd->add_option("--out", run.out, "Output directory (default: <scenario name>-run)");
+    run_cmd->add_option("--set", run.sets, "Override a scenario key, e.g. --set rates.transfer=0 (repeatable)")
+        ->type_name("KEY=VALUE");
+    run_cmd->add_option("--seed", run.seed, "Random seed (overrides run.seed)");
+    run_cmd->add_option("--threads", run.threads, "Worker threads, 0 = all cores (overrides run.threads)")
+        ->check(CLI::NonNegativeNumber);
+    run_cmd->add_option("--replicates", run.replicates, "Independent replicates, run in parallel")
+        ->check(CLI::PositiveNumber);
+    run_cmd->add_flag("--quiet", run.quiet, "No progress bar or messages");
+    run_cmd->add_flag("--overwrite", run.overwrite, "Allow --out to name a directory that already holds a run");
+
+    CheckOptions check;
+    auto* check_cmd = app.add_subcommand("check", "Validate a scenario and its map; print a summary and a cost estimate");
+    check_cmd->add_option("scenario", check.scenario, "Scenario file (TOML)")->required();
+    check_cmd->add_option("--set", check.sets, "Override a scenario key (repeatable)")->type_name("KEY=VALUE");
+
+    DemoOptions demo;
+    auto* demo_cmd = app.add_subcommand("demo", "Run the bundled demo scenario into ./tessera-demo/");
+    demo_cmd->add_option("--out", demo.out, "Output directory");
+    demo_cmd->add_option("--threads", demo.threads, "Worker threads, 0 = all cores")->check(CLI::NonNegativeNumber);
+    demo_cmd->add_flag("--quiet", demo.quiet, "No progress bar or messages");
+
+    try {
+        app.parse(argc, argv);
+    } catch (const CLI::ParseError& e) {
+        const int code = app.exit(e);
+        return code == 0 ? 0 : 2;
+    }
+
+    try {
+        if (*run_cmd) return run_command(run);
+        if (*check_cmd) return check_command(check);
+        if (*demo_cmd) return demo_command(demo);
+    } catch (const std::exception& e) {
+        std::cerr << "internal error: " << e.what() << "\n";
+        return 1;
+    }
+    return 2;
+}
