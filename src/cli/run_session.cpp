@@ -11,10 +11,12 @@
 #include <fstream>
 #include <iostream>
 #include <memory>
+#include <mutex>
 #include <system_error>
 
 #include "cli/progress.hpp"
 #include "core/engine.hpp"
+#include "io/fields_writer.hpp"
 #include "io/scenario_writer.hpp"
 #include "io/series_writer.hpp"
 
@@ -32,27 +34,106 @@ extern "C" void on_interrupt(int signal) {
     interrupt_signal = signal;
 }
 
-// Writes one replicate's series rows as they come, flushing after every output time, so a
+// Appends `part` to `into` and removes it.
+bool append_and_remove(std::FILE* into, const fs::path& part) {
+    std::FILE* in = std::fopen(part.c_str(), "rb");
+    if (!in) return false;
+    char buf[1 << 16];
+    std::size_t n;
+    bool ok = true;
+    while ((n = std::fread(buf, 1, sizeof buf, in)) > 0) ok = ok && std::fwrite(buf, 1, n, into) == n;
+    std::fclose(in);
+    std::error_code ec;
+    fs::remove(part, ec);
+    return ok;
+}
+
+// One replicate's outputs, written as the run goes and flushed after every output time, so a
 // long run can be read while it runs and an interrupted one keeps what it had.
-class SeriesObserver : public Observer {
+class ReplicateOutputs : public Observer {
 public:
-    SeriesObserver(std::FILE* file, Progress& progress, int part)
-        : file_(file), progress_(progress), part_(part) {}
+    ReplicateOutputs(std::FILE* series, std::FILE* habitat_series, std::unique_ptr<FieldsWriter> fields,
+                     Progress& progress, int part)
+        : series_(series), habitat_series_(habitat_series), fields_(std::move(fields)), progress_(progress), part_(part) {}
+
     void observe(const Engine& engine, unsigned kinds) override {
         if (kinds & series_output) {
             buffer_.clear();
             append_series_rows(engine, buffer_);
-            std::fwrite(buffer_.data(), 1, buffer_.size(), file_);
-            std::fflush(file_);
+            write(series_);
+            buffer_.clear();
+            append_habitat_series_rows(engine, buffer_);
+            write(habitat_series_);
         }
+        if ((kinds & fields_output) && fields_) fields_->append(engine);
         progress_.report(part_, engine.time() / engine.until());
     }
 
 private:
-    std::FILE* file_;
+    void write(std::FILE* file) {
+        std::fwrite(buffer_.data(), 1, buffer_.size(), file);
+        std::fflush(file);
+    }
+    std::FILE* series_;
+    std::FILE* habitat_series_;
+    std::unique_ptr<FieldsWriter> fields_;
     Progress& progress_;
     int part_;
     std::string buffer_;
+};
+
+// A CSV output: with one replicate it streams straight into its file; with several, each
+// replicate streams into a part file of its own, joined in replicate order at the end, so the
+// file never depends on scheduling.
+class CsvOutput {
+public:
+    CsvOutput(fs::path file, std::string header, int replicates)
+        : file_(std::move(file)), header_(std::move(header)) {
+        if (replicates == 1) {
+            parts_.push_back(file_);
+        } else {
+            for (int r = 0; r < replicates; ++r) {
+                parts_.push_back(file_.parent_path() / (file_.stem().string() + ".replicate" + std::to_string(r) + ".part"));
+            }
+        }
+    }
+    ~CsvOutput() { close(); }
+
+    bool open() {
+        for (const fs::path& p : parts_) {
+            std::FILE* h = std::fopen(p.c_str(), "wb");
+            if (!h) {
+                std::cerr << "error: cannot write " << p.string() << "\n";
+                return false;
+            }
+            handles_.push_back(h);
+        }
+        if (parts_.size() == 1) std::fputs(header_.c_str(), handles_[0]);
+        return true;
+    }
+    std::FILE* handle(int replicate) { return handles_[static_cast<std::size_t>(replicate)]; }
+
+    // Closes the files and joins the parts; false (with a message) when writing failed.
+    bool finish() {
+        close();
+        if (parts_.size() == 1) return true;
+        std::FILE* all = std::fopen(file_.c_str(), "wb");
+        bool ok = all != nullptr && std::fputs(header_.c_str(), all) >= 0;
+        for (const fs::path& part : parts_) ok = ok && append_and_remove(all, part);
+        if (all) ok = std::fclose(all) == 0 && ok;
+        if (!ok) std::cerr << "error: cannot write " << file_.string() << "\n";
+        return ok;
+    }
+
+private:
+    void close() {
+        for (std::FILE* h : handles_) std::fclose(h);
+        handles_.clear();
+    }
+    fs::path file_;
+    std::string header_;
+    std::vector<fs::path> parts_;
+    std::vector<std::FILE*> handles_;
 };
 
 bool holds_a_run(const fs::path& dir) {
@@ -94,20 +175,6 @@ bool write_text(const fs::path& file, const std::string& text) {
     return static_cast<bool>(out);
 }
 
-// Appends `part` to `into` and removes it.
-bool append_and_remove(std::FILE* into, const fs::path& part) {
-    std::FILE* in = std::fopen(part.c_str(), "rb");
-    if (!in) return false;
-    char buf[1 << 16];
-    std::size_t n;
-    bool ok = true;
-    while ((n = std::fread(buf, 1, sizeof buf, in)) > 0) ok = ok && std::fwrite(buf, 1, n, into) == n;
-    std::fclose(in);
-    std::error_code ec;
-    fs::remove(part, ec);
-    return ok;
-}
-
 }  // namespace
 
 int run_session(const Scenario& scenario, const std::string& out_dir, const SessionOptions& options) {
@@ -126,49 +193,39 @@ int run_session(const Scenario& scenario, const std::string& out_dir, const Sess
     std::signal(SIGTERM, on_interrupt);
 
     const int R = options.replicates;
-    // One replicate streams straight into series.csv; several stream into one part file
-    // each, joined in replicate order at the end, so the file never depends on scheduling.
-    const fs::path series = dir / "series.csv";
-    std::vector<fs::path> files;
-    if (R == 1) {
-        files.push_back(series);
-    } else {
-        for (int r = 0; r < R; ++r) files.push_back(dir / ("series.replicate" + std::to_string(r) + ".part"));
-    }
-    std::vector<std::FILE*> handles;
-    for (const fs::path& f : files) {
-        std::FILE* h = std::fopen(f.c_str(), "wb");
-        if (!h) {
-            std::cerr << "error: cannot write " << f.string() << "\n";
-            for (std::FILE* o : handles) std::fclose(o);
-            return 2;
-        }
-        handles.push_back(h);
-    }
-    if (R == 1) std::fputs(series_header().c_str(), handles[0]);
+    CsvOutput series(dir / "series.csv", series_header(), R);
+    CsvOutput habitat_series(dir / "habitat_series.csv", habitat_series_header(), R);
+    if (!series.open() || !habitat_series.open()) return 2;
 
+    // Fields of replicate 0 go to fields.h5, of replicate r > 0 to fields.replicate<r>.h5.
     Progress progress(R, !options.quiet && Progress::stderr_is_terminal());
+    std::mutex failure_mutex;
+    std::string failure;
     tbb::parallel_for(0, R, [&](int r) {
         Engine engine(scenario, static_cast<std::uint32_t>(r));
-        SeriesObserver observer(handles[static_cast<std::size_t>(r)], progress, r);
-        engine.run(observer, &interrupted);
+        std::unique_ptr<FieldsWriter> fields;
+        if (scenario.fields_every > 0) {
+            const std::string name = r == 0 ? "fields.h5" : "fields.replicate" + std::to_string(r) + ".h5";
+            try {
+                fields = std::make_unique<FieldsWriter>((dir / name).string(), engine);
+            } catch (const std::runtime_error& e) {
+                std::lock_guard lock(failure_mutex);
+                failure = e.what();
+                interrupted = true;  // stop the other replicates too
+                return;
+            }
+        }
+        ReplicateOutputs outputs(series.handle(r), habitat_series.handle(r), std::move(fields), progress, r);
+        engine.run(outputs, &interrupted);
     });
     progress.finish();
-    for (std::FILE* h : handles) std::fclose(h);
-
-    if (R > 1) {
-        std::FILE* all = std::fopen(series.c_str(), "wb");
-        bool ok = all != nullptr;
-        if (ok) ok = std::fputs(series_header().c_str(), all) >= 0;
-        for (const fs::path& part : files) ok = ok && append_and_remove(all, part);
-        if (all) std::fclose(all);
-        if (!ok) {
-            std::cerr << "error: cannot write " << series.string() << "\n";
-            return 2;
-        }
-    }
+    if (!series.finish() || !habitat_series.finish()) return 2;
     std::signal(SIGINT, SIG_DFL);
     std::signal(SIGTERM, SIG_DFL);
+    if (!failure.empty()) {
+        std::cerr << "error: " << failure << "\n";
+        return 2;
+    }
     if (interrupted) {
         std::cerr << "interrupted: the outputs up to the last step are in " << dir.string() << "\n";
         return 128 + interrupt_signal.load();

@@ -8,6 +8,7 @@
 namespace tessera {
 
 std::string series_header() { return "replicate,t,t_logK,dormancy,transfer,active,dormant,exponent\n"; }
+std::string habitat_series_header() { return "replicate,t,t_logK,habitat,dormancy,transfer,active,dormant\n"; }
 
 namespace {
 
@@ -27,14 +28,15 @@ void append_number(std::string& out, double v) {
     out += buf;
 }
 
-}  // namespace
-
-void append_series_rows(const Engine& engine, std::string& out) {
+// Per-trait totals over the patches of one class (class < 0: every patch), in patch order.
+void sum_counts(const Engine& engine, int habitat_class, std::vector<std::int64_t>& active,
+                std::vector<std::int64_t>& dormant) {
     const Lattice& lattice = engine.lattice();
-    const TraitGrid& traits = engine.traits();
-    const int T = traits.size();
-    std::vector<std::int64_t> active(T, 0), dormant(T, 0);
+    const int T = lattice.traits();
+    active.assign(static_cast<std::size_t>(T), 0);
+    dormant.assign(static_cast<std::size_t>(T), 0);
     for (std::size_t p = 0; p < lattice.patches(); ++p) {
+        if (habitat_class >= 0 && engine.scenario().habitat_of_patch[p] != habitat_class) continue;
         const std::int64_t* a = lattice.active(p);
         const std::int64_t* d = lattice.dormant(p);
         for (int i = 0; i < T; ++i) {
@@ -42,14 +44,28 @@ void append_series_rows(const Engine& engine, std::string& out) {
             dormant[i] += d[i];
         }
     }
+}
+
+// "replicate,t,t_logK,"
+void append_time_prefix(const Engine& engine, std::string& out) {
+    out += std::to_string(engine.replicate());
+    out += ',';
+    append_number(out, engine.time());
+    out += ',';
+    append_number(out, engine.time_logK());
+    out += ',';
+}
+
+}  // namespace
+
+void append_series_rows(const Engine& engine, std::string& out) {
+    const TraitGrid& traits = engine.traits();
+    const int T = traits.size();
+    std::vector<std::int64_t> active, dormant;
+    sum_counts(engine, -1, active, dormant);
     const double log_K = std::log(engine.scenario().K);
-    const std::string prefix = std::to_string(engine.replicate()) + ",";
     for (int i = 0; i < T; ++i) {
-        out += prefix;
-        append_number(out, engine.time());
-        out += ',';
-        append_number(out, engine.time_logK());
-        out += ',';
+        append_time_prefix(engine, out);
         append_number(out, traits.dormancy(i));
         out += ',';
         append_number(out, traits.transfer(i));
@@ -60,6 +76,28 @@ void append_series_rows(const Engine& engine, std::string& out) {
         out += ',';
         append_number(out, std::log1p(static_cast<double>(active[i] + dormant[i])) / log_K);
         out += '\n';
+    }
+}
+
+void append_habitat_series_rows(const Engine& engine, std::string& out) {
+    const TraitGrid& traits = engine.traits();
+    std::vector<std::int64_t> active, dormant;
+    const auto& habitats = engine.scenario().habitats;
+    for (std::size_t c = 0; c < habitats.size(); ++c) {
+        sum_counts(engine, static_cast<int>(c), active, dormant);
+        for (int i = 0; i < traits.size(); ++i) {
+            append_time_prefix(engine, out);
+            out += habitats[c].name;
+            out += ',';
+            append_number(out, traits.dormancy(i));
+            out += ',';
+            append_number(out, traits.transfer(i));
+            out += ',';
+            out += std::to_string(active[i]);
+            out += ',';
+            out += std::to_string(dormant[i]);
+            out += '\n';
+        }
     }
 }
 

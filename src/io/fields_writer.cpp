@@ -1,0 +1,152 @@
+#include "io/fields_writer.hpp"
+
+#include <hdf5.h>
+
+#include <algorithm>
+#include <cstring>
+#include <stdexcept>
+#include <vector>
+
+#include "version.hpp"
+
+namespace tessera {
+
+namespace {
+
+hid_t make_extendible(hid_t file, const char* name, hid_t type, const std::vector<hsize_t>& item,
+                      const std::vector<hsize_t>& chunk_item, bool compress) {
+    std::vector<hsize_t> dims{0}, maxdims{H5S_UNLIMITED}, chunk{1};
+    for (std::size_t k = 0; k < item.size(); ++k) {
+        dims.push_back(item[k]);
+        maxdims.push_back(item[k]);
+        chunk.push_back(chunk_item[k]);
+    }
+    if (item.empty()) chunk[0] = 256;  // 1-D time axes: many snapshots per chunk
+    hid_t space = H5Screate_simple(static_cast<int>(dims.size()), dims.data(), maxdims.data());
+    hid_t props = H5Pcreate(H5P_DATASET_CREATE);
+    H5Pset_chunk(props, static_cast<int>(chunk.size()), chunk.data());
+    if (compress) {
+        H5Pset_shuffle(props);
+        H5Pset_deflate(props, 4);
+    }
+    hid_t set = H5Dcreate2(file, name, type, space, H5P_DEFAULT, props, H5P_DEFAULT);
+    H5Pclose(props);
+    H5Sclose(space);
+    return set;
+}
+
+// Appends one item (a scalar or a block of `item` dims) along the first axis.
+void append_item(hid_t set, std::uint64_t index, const std::vector<hsize_t>& item, hid_t memtype, const void* data) {
+    std::vector<hsize_t> size{index + 1}, start{index}, count{1};
+    for (hsize_t d : item) {
+        size.push_back(d);
+        start.push_back(0);
+        count.push_back(d);
+    }
+    H5Dset_extent(set, size.data());
+    hid_t file_space = H5Dget_space(set);
+    H5Sselect_hyperslab(file_space, H5S_SELECT_SET, start.data(), nullptr, count.data(), nullptr);
+    hid_t mem_space = H5Screate_simple(static_cast<int>(count.size()), count.data(), nullptr);
+    H5Dwrite(set, memtype, mem_space, file_space, H5P_DEFAULT, data);
+    H5Sclose(mem_space);
+    H5Sclose(file_space);
+}
+
+void write_attribute(hid_t where, const char* name, hid_t type, const void* value) {
+    hid_t space = H5Screate(H5S_SCALAR);
+    hid_t attr = H5Acreate2(where, name, type, space, H5P_DEFAULT, H5P_DEFAULT);
+    H5Awrite(attr, type, value);
+    H5Aclose(attr);
+    H5Sclose(space);
+}
+
+void write_string_attribute(hid_t where, const char* name, const std::string& value) {
+    hid_t type = H5Tcopy(H5T_C_S1);
+    H5Tset_size(type, std::max<std::size_t>(1, value.size()));
+    write_attribute(where, name, type, value.c_str());
+    H5Tclose(type);
+}
+
+void write_dataset(hid_t file, const char* name, hid_t type, const std::vector<hsize_t>& dims, const void* data) {
+    hid_t space = H5Screate_simple(static_cast<int>(dims.size()), dims.data(), nullptr);
+    hid_t set = H5Dcreate2(file, name, type, space, H5P_DEFAULT, H5P_DEFAULT, H5P_DEFAULT);
+    H5Dwrite(set, type, H5S_ALL, H5S_ALL, H5P_DEFAULT, data);
+    H5Dclose(set);
+    H5Sclose(space);
+}
+
+std::vector<hsize_t> lattice_item(const Engine& e) {
+    return {static_cast<hsize_t>(e.lattice().height()), static_cast<hsize_t>(e.lattice().width()),
+            static_cast<hsize_t>(e.lattice().traits())};
+}
+
+}  // namespace
+
+FieldsWriter::FieldsWriter(const std::string& path, const Engine& engine) : path_(path) {
+    H5Eset_auto2(H5E_DEFAULT, nullptr, nullptr);  // our own messages, not HDF5's stack dump
+    file_ = H5Fcreate(path.c_str(), H5F_ACC_TRUNC, H5P_DEFAULT, H5P_DEFAULT);
+    if (file_ < 0) throw std::runtime_error(path + ": cannot create the HDF5 file");
+
+    const Scenario& s = engine.scenario();
+    const std::vector<hsize_t> item = lattice_item(engine);
+    // Chunks of whole rows, about 1 MiB each, so a reader can fetch a region cheaply.
+    const hsize_t row_bytes = item[1] * item[2] * sizeof(std::uint64_t);
+    const hsize_t rows = std::clamp<hsize_t>((1u << 20) / std::max<hsize_t>(row_bytes, 1), 1, item[0]);
+    const std::vector<hsize_t> chunk{rows, item[1], item[2]};
+    t_ = make_extendible(file_, "t", H5T_NATIVE_DOUBLE, {}, {}, false);
+    t_logK_ = make_extendible(file_, "t_logK", H5T_NATIVE_DOUBLE, {}, {}, false);
+    active_ = make_extendible(file_, "active", H5T_STD_U64LE, item, chunk, true);
+    dormant_ = make_extendible(file_, "dormant", H5T_STD_U64LE, item, chunk, true);
+    if (t_ < 0 || t_logK_ < 0 || active_ < 0 || dormant_ < 0) {
+        throw std::runtime_error(path + ": cannot create the datasets");
+    }
+
+    const TraitGrid& traits = engine.traits();
+    std::vector<double> table;
+    for (int i = 0; i < traits.size(); ++i) {
+        table.push_back(traits.dormancy(i));
+        table.push_back(traits.transfer(i));
+    }
+    write_dataset(file_, "traits", H5T_NATIVE_DOUBLE, {static_cast<hsize_t>(traits.size()), 2}, table.data());
+    write_dataset(file_, "habitat", H5T_NATIVE_UINT16, {item[0], item[1]}, s.habitat_of_patch.data());
+
+    std::size_t longest = 1;
+    for (const Habitat& h : s.habitats) longest = std::max(longest, h.name.size());
+    std::vector<char> names(longest * s.habitats.size(), '\0');
+    for (std::size_t c = 0; c < s.habitats.size(); ++c) {
+        std::memcpy(names.data() + c * longest, s.habitats[c].name.data(), s.habitats[c].name.size());
+    }
+    hid_t name_type = H5Tcopy(H5T_C_S1);
+    H5Tset_size(name_type, longest);
+    write_dataset(file_, "habitat_names", name_type, {s.habitats.size()}, names.data());
+    H5Tclose(name_type);
+
+    write_attribute(file_, "K", H5T_NATIVE_DOUBLE, &s.K);
+    write_attribute(file_, "seed", H5T_NATIVE_UINT64, &s.seed);
+    const std::uint32_t replicate = engine.replicate();
+    write_attribute(file_, "replicate", H5T_NATIVE_UINT32, &replicate);
+    write_string_attribute(file_, "version", tessera::version);
+    write_string_attribute(file_, "build_id", tessera::build_id);
+}
+
+FieldsWriter::~FieldsWriter() {
+    for (std::int64_t id : {t_, t_logK_, active_, dormant_}) {
+        if (id >= 0) H5Dclose(id);
+    }
+    if (file_ >= 0) H5Fclose(file_);
+}
+
+void FieldsWriter::append(const Engine& engine) {
+    const double t = engine.time();
+    const double t_logK = engine.time_logK();
+    append_item(t_, snapshots_, {}, H5T_NATIVE_DOUBLE, &t);
+    append_item(t_logK_, snapshots_, {}, H5T_NATIVE_DOUBLE, &t_logK);
+    // Counts are never negative, so their int64 bits are their uint64 value.
+    const std::vector<hsize_t> item = lattice_item(engine);
+    append_item(active_, snapshots_, item, H5T_NATIVE_UINT64, engine.lattice().all_active().data());
+    append_item(dormant_, snapshots_, item, H5T_NATIVE_UINT64, engine.lattice().all_dormant().data());
+    ++snapshots_;
+    H5Fflush(file_, H5F_SCOPE_LOCAL);
+}
+
+}  // namespace tessera

@@ -1,0 +1,37 @@
+// fields.h5: per-patch snapshots, written as the run goes (each snapshot is flushed, so a
+// long run can be opened while it runs). Layout (interfaces.md):
+//   /t, /t_logK            [snapshot]                         float64
+//   /active, /dormant      [snapshot][row][col][trait]        uint64, chunked, deflate
+//   /traits                [trait][2] (dormancy, transfer)    float64
+//   /habitat               [row][col] class index             uint16
+//   /habitat_names         [class]                            fixed-length strings
+//   root attributes: K, seed, replicate, version, build_id
+#pragma once
+
+#include <cstdint>
+#include <string>
+
+#include "core/engine.hpp"
+
+namespace tessera {
+
+class FieldsWriter {
+public:
+    // Creates (truncates) `path` and writes the static tables. Throws std::runtime_error
+    // with the file name when HDF5 cannot create it.
+    FieldsWriter(const std::string& path, const Engine& engine);
+    ~FieldsWriter();
+    FieldsWriter(const FieldsWriter&) = delete;
+    FieldsWriter& operator=(const FieldsWriter&) = delete;
+
+    void append(const Engine& engine);  // one snapshot of the current state
+    std::uint64_t snapshots() const { return snapshots_; }
+
+private:
+    std::string path_;
+    std::int64_t file_ = -1;  // hid_t
+    std::int64_t t_ = -1, t_logK_ = -1, active_ = -1, dormant_ = -1;
+    std::uint64_t snapshots_ = 0;
+};
+
+}  // namespace tessera
