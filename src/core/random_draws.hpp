@@ -1,0 +1,28 @@
+// Poisson and binomial variates for the leap engine, drawn from our Rng so that a patch's
+// numbers depend only on its stream (rng.hpp), never on the thread.
+//
+// Poisson: inversion by sequential search for small means (Devroye 1986, Non-Uniform Random
+// Variate Generation, section X.3.3), and Hormann's transformed rejection with squeeze, PTRS
+// (W. Hormann 1993, "The transformed rejection method for generating Poisson random
+// variables", Insurance: Mathematics and Economics 12:39-45) for means of 10 and more. PTRS
+// costs O(1) for any mean, so a leap at K = 1e12 costs what it costs at K = 1e4.
+//
+// Binomial: inversion for small means (Devroye 1986, section X.4.3), otherwise
+// std::binomial_distribution (deterministic for a given libstdc++, which the determinism
+// test pins down). The leap engine draws binomials only to split a known number of
+// conjugations over donor traits (a multinomial), so their speed matters little.
+#pragma once
+
+#include <cstdint>
+
+#include "core/rng.hpp"
+
+namespace tessera {
+
+// A Poisson variate of mean `mean` (>= 0; 0 gives 0).
+std::int64_t poisson(Rng& rng, double mean);
+
+// A binomial variate: successes in n trials of probability p (p clamped to [0, 1]).
+std::int64_t binomial(Rng& rng, std::int64_t n, double p);
+
+}  // namespace tessera
