@@ -15,6 +15,8 @@ namespace tessera {
 struct TraitAxis {
     double max = 4.0;  // value of the highest level
     int levels = 3;    // levels 0, max/(levels-1), ..., max; 1 level switches the mechanism off
+
+    bool operator==(const TraitAxis&) const = default;
 };
 
 enum class TransferForm { frequency, density };
@@ -28,6 +30,8 @@ struct RateOverride {
     std::optional<double> death;
     std::optional<double> competition;
     std::optional<double> dormancy_probability;  // q for this trait directly (not p)
+
+    bool operator==(const RateOverride&) const = default;
 };
 
 struct Rates {
@@ -48,6 +52,8 @@ struct Rates {
     double migration = 0.05;
     double migration_dormant = 0.0;
     std::vector<RateOverride> overrides;
+
+    bool operator==(const Rates&) const = default;
 };
 
 enum class Boundary { reflecting, periodic, absorbing };
@@ -60,6 +66,8 @@ struct Habitat {
     double stress = 0.0;    // extra death rate of active cells
     double resuscitation = 1.0;
     double permeability = 1.0;
+
+    bool operator==(const Habitat&) const = default;
 };
 
 struct Inoculum {
@@ -72,6 +80,8 @@ struct Inoculum {
     std::optional<double> active;    // count per patch
     std::optional<double> exponent;  // or K_p^exponent active cells per patch
     double dormant = 0.0;
+
+    bool operator==(const Inoculum&) const = default;
 };
 
 // A change of a habitat class's properties during [start, end), repeating every `every`
@@ -82,6 +92,8 @@ struct Schedule {
     double end = 0.0;
     double every = 0.0;
     std::optional<double> capacity, stress, resuscitation, permeability;
+
+    bool operator==(const Schedule&) const = default;
 };
 
 enum class TimeUnit { logK, plain };
@@ -101,6 +113,7 @@ struct Scenario {
     int neighbourhood = 4;
     Boundary boundary = Boundary::reflecting;
     std::string map;                  // as written in the file ("" = none)
+    std::string map_path;             // the map file as opened, absolute ("" = none)
     std::vector<Habitat> habitats;    // never empty after loading; [0] is the default class
     std::vector<std::uint16_t> habitat_of_patch;  // width*height, row-major, top row first
 
@@ -121,6 +134,9 @@ struct Scenario {
 
     // Plain-time value of a duration written in run.time_unit.
     double to_plain(double in_unit) const;
+
+    // Field-by-field equality (a resolved scenario file reads back equal, see src/io).
+    bool operator==(const Scenario&) const = default;
 };
 
 }  // namespace tessera

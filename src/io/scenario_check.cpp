@@ -1,0 +1,217 @@
+// Step 4 of loading: the rules that relate several values (the birth rate over the whole
+// trait grid, traits on the grid, names that must exist or be unique, places inside the
+// lattice, schedule times). Single values were range-checked as they were read.
+#include <cmath>
+#include <map>
+
+#include "core/trait_grid.hpp"
+#include "io/scenario_findings.hpp"
+#include "io/text_help.hpp"
+
+namespace tessera::scenario_io {
+
+namespace {
+
+std::string entry(const char* array, std::size_t i) { return std::string(array) + "[" + std::to_string(i + 1) + "]"; }
+
+// "0, 2, 4", shortened for long axes to "0, 0.1, 0.2, ..., 10".
+std::string levels_text(const TraitAxis& axis) {
+    const double step = axis.levels > 1 ? axis.max / (axis.levels - 1) : 0.0;
+    std::vector<std::string> v;
+    if (axis.levels <= 6) {
+        for (int l = 0; l < axis.levels; ++l) v.push_back(format_number(l * step));
+    } else {
+        for (int l = 0; l < 3; ++l) v.push_back(format_number(l * step));
+        v.push_back("...");
+        v.push_back(format_number(axis.max));
+    }
+    return join_list(v);
+}
+
+std::string trait_text(double x, double y) { return "[" + format_number(x) + ", " + format_number(y) + "]"; }
+
+std::string grid_accepted(const Scenario& s) {
+    return "a trait with dormancy one of " + levels_text(s.dormancy_axis) + " and transfer one of " +
+           levels_text(s.transfer_axis);
+}
+
+bool axis_ok(const TraitAxis& a) { return a.levels >= 1 && std::isfinite(a.max) && a.max >= 0 && (a.levels == 1 || a.max > 0); }
+
+void check_axes(const Scenario& s, Findings& f) {
+    for (auto [name, axis] : {std::pair{"dormancy", &s.dormancy_axis}, std::pair{"transfer", &s.transfer_axis}}) {
+        if (axis->levels > 1 && axis->max == 0.0) {
+            const std::string key = std::string("traits.") + name + ".max";
+            f.add(f.place_any({key, std::string("traits.") + name + ".levels"}), key,
+                  "must be > 0 when levels > 1, got 0; accepted: a number > 0, or levels = 1 to switch the "
+                  "mechanism off");
+        }
+    }
+}
+
+void check_rates_on_grid(const Scenario& s, Findings& f) {
+    const TraitGrid grid(s.dormancy_axis, s.transfer_axis);
+    const Rates& r = s.rates;
+
+    std::map<int, std::size_t> overridden;  // trait -> first override entry
+    for (std::size_t i = 0; i < r.overrides.size(); ++i) {
+        const RateOverride& o = r.overrides[i];
+        const std::string key = entry("rates.override", i) + ".trait";
+        auto t = grid.find(o.dormancy, o.transfer);
+        if (!t) {
+            f.add(key, "trait " + trait_text(o.dormancy, o.transfer) + " is not on the grid; accepted: " +
+                           grid_accepted(s));
+            continue;
+        }
+        auto [it, fresh] = overridden.emplace(*t, i);
+        if (!fresh)
+            f.add(key, "trait " + trait_text(o.dormancy, o.transfer) + " is already overridden by " +
+                           entry("rates.override", it->second) + " (line " +
+                           std::to_string(f.place(entry("rates.override", it->second)).line) +
+                           "); accepted: one override per trait, holding all its rates");
+    }
+
+    // q(x) = p x is a probability at every level.
+    const double q_max = r.dormancy_probability * grid.dormancy_max();
+    if (q_max > 1.0) {
+        f.add(f.place_any({"rates.dormancy_probability", "traits.dormancy.max", "traits.dormancy"}),
+              "rates.dormancy_probability",
+              "p * x_max = " + format_number(r.dormancy_probability) + " * " + format_number(grid.dormancy_max()) +
+                  " = " + format_number(q_max) + " is above 1, but q(x) = p * x is a probability; accepted: p <= " +
+                  format_number(1.0 / grid.dormancy_max()) + " (1 / x_max)");
+    }
+
+    // b(x, y) >= 0 everywhere; 0 is allowed (that trait never divides).
+    std::vector<std::string> negative;
+    for (int t = 0; t < grid.size(); ++t) {
+        const double x = grid.dormancy(t), y = grid.transfer(t);
+        if (overridden.count(t) && r.overrides[overridden[t]].birth) continue;
+        const double b = r.birth_max - r.birth_cost_dormancy * x - r.birth_cost_transfer * y;
+        if (b < 0) negative.push_back("b" + trait_text(x, y) + " = " + format_number(b));
+    }
+    if (!negative.empty()) {
+        f.add(f.place_any({"rates.birth_cost_dormancy", "rates.birth_cost_transfer", "rates.birth_max",
+                           "traits.dormancy", "traits.transfer"}),
+              "rates.birth_max",
+              "birth rate b(x, y) = birth_max - birth_cost_dormancy * x - birth_cost_transfer * y is negative at " +
+                  join_list(negative) +
+                  "; accepted: b >= 0 at every trait (raise birth_max, lower the costs, or give those traits a "
+                  "[[rates.override]] birth)");
+    }
+
+    for (std::size_t i = 0; i < s.inocula.size(); ++i) {
+        const Inoculum& in = s.inocula[i];
+        if (!grid.find(in.dormancy, in.transfer))
+            f.add(entry("inoculum", i) + ".trait", "trait " + trait_text(in.dormancy, in.transfer) +
+                                                        " is not on the grid; accepted: " + grid_accepted(s));
+    }
+}
+
+// The names of the habitat classes, for messages and suggestions.
+std::vector<std::string> habitat_names(const Scenario& s) {
+    std::vector<std::string> names;
+    for (const Habitat& h : s.habitats) names.push_back(h.name);
+    return names;
+}
+
+std::string unknown_habitat(const Scenario& s, const std::string& name) {
+    const auto names = habitat_names(s);
+    const std::string suggestion = closest_match(name, names);
+    std::string m = "no habitat is named " + toml_string(name);
+    if (!suggestion.empty()) m += " (did you mean " + toml_string(suggestion) + "?)";
+    return m + "; accepted: " + join_list(names);
+}
+
+bool has_habitat(const Scenario& s, const std::string& name) {
+    for (const Habitat& h : s.habitats)
+        if (h.name == name) return true;
+    return false;
+}
+
+void check_habitats(const Scenario& s, Findings& f) {
+    if (s.habitats.size() > 65535)
+        f.add("habitat", "there are " + std::to_string(s.habitats.size()) + " classes; accepted: at most 65535");
+    // Names always, symbols and colours where written: the defaults may repeat until a map
+    // needs them (the map loader checks those it uses).
+    std::map<std::string, std::size_t> names, symbols, colours;
+    for (std::size_t i = 0; i < s.habitats.size(); ++i) {
+        const Habitat& h = s.habitats[i];
+        auto [it, fresh] = names.emplace(h.name, i);
+        if (!fresh)
+            f.add(entry("habitat", i) + ".name", "name " + toml_string(h.name) + " is also used by " +
+                                                     entry("habitat", it->second) +
+                                                     "; accepted: a name no other habitat has");
+        if (f.has(entry("habitat", i) + ".symbol")) {
+            auto [its, fresh_s] = symbols.emplace(h.symbol, i);
+            if (!fresh_s)
+                f.add(entry("habitat", i) + ".symbol", "symbol " + toml_string(h.symbol) + " is also used by " +
+                                                           entry("habitat", its->second) +
+                                                           "; accepted: a character no other habitat uses");
+        }
+        if (f.has(entry("habitat", i) + ".colour")) {
+            std::string lower = h.colour;
+            for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+            auto [itc, fresh_c] = colours.emplace(lower, i);
+            if (!fresh_c)
+                f.add(entry("habitat", i) + ".colour", "colour " + h.colour + " is also used by " +
+                                                           entry("habitat", itc->second) +
+                                                           "; accepted: a colour no other habitat uses");
+        }
+    }
+}
+
+void check_inocula(const Scenario& s, Findings& f) {
+    double max_capacity = 0.0;
+    for (const Habitat& h : s.habitats) max_capacity = std::max(max_capacity, h.capacity);
+    const std::string inside = "a place inside the " + std::to_string(s.width) + " x " + std::to_string(s.height) +
+                               " lattice: X from 0 to " + std::to_string(s.width - 1) + ", Y from 0 to " +
+                               std::to_string(s.height - 1);
+    for (std::size_t i = 0; i < s.inocula.size(); ++i) {
+        const Inoculum& in = s.inocula[i];
+        const std::string key = entry("inoculum", i);
+        if (in.where == Inoculum::Where::habitat && !has_habitat(s, in.habitat))
+            f.add(key + ".where", unknown_habitat(s, in.habitat));
+        if (in.where == Inoculum::Where::patch || in.where == Inoculum::Where::rect) {
+            const bool ok = in.x0 >= 0 && in.y0 >= 0 && in.x1 < s.width && in.y1 < s.height;
+            if (!ok)
+                f.add(key + ".where", std::string(in.where == Inoculum::Where::patch ? "patch " : "rectangle ") +
+                                          "reaches outside the lattice; accepted: " + inside);
+        }
+        if (in.exponent && s.K * max_capacity > 1.0) {
+            const double cells = std::pow(s.K * max_capacity, *in.exponent);
+            if (!(cells < 4611686018427387904.0))
+                f.add(key + ".exponent", "K_p^exponent = " + format_number(cells) +
+                                             " cells per patch is too many; accepted: an exponent giving fewer "
+                                             "than 2^62 cells");
+        }
+    }
+}
+
+void check_schedules(const Scenario& s, Findings& f) {
+    for (std::size_t i = 0; i < s.schedules.size(); ++i) {
+        const Schedule& sc = s.schedules[i];
+        const std::string key = entry("schedule", i);
+        if (f.has(key + ".habitat") && !has_habitat(s, sc.habitat)) f.add(key + ".habitat", unknown_habitat(s, sc.habitat));
+        if (f.has(key + ".end") && !(sc.end > sc.start))
+            f.add(key + ".end", "must be after start (" + format_number(sc.start) + "), got " + format_number(sc.end) +
+                                    "; accepted: a time > start, in run.time_unit");
+        if (f.has(key + ".every") && sc.end > sc.start && sc.every < sc.end - sc.start)
+            f.add(key + ".every", "repeats every " + format_number(sc.every) + ", sooner than the change lasts (" +
+                                      format_number(sc.end - sc.start) + "); accepted: every >= end - start");
+    }
+}
+
+}  // namespace
+
+void check_scenario(const Scenario& s, Findings& f) {
+    check_axes(s, f);
+    if (axis_ok(s.dormancy_axis) && axis_ok(s.transfer_axis)) check_rates_on_grid(s, f);
+    check_habitats(s, f);
+    check_inocula(s, f);
+    check_schedules(s, f);
+    if (static_cast<double>(s.width) * s.height > 1e8)
+        f.add(f.place_any({"lattice.width", "lattice.map", "lattice"}), "lattice.width",
+              "the lattice has " + format_number(static_cast<double>(s.width) * s.height) +
+                  " patches; accepted: at most 1e8 patches");
+}
+
+}  // namespace tessera::scenario_io
