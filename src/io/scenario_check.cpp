@@ -86,7 +86,7 @@ void check_rates_on_grid(const Scenario& s, Findings& f) {
         const double x = grid.dormancy(t), y = grid.transfer(t);
         if (overridden.count(t) && r.overrides[overridden[t]].birth) continue;
         const double b = r.birth_max - r.birth_cost_dormancy * x - r.birth_cost_transfer * y;
-        if (b < 0) negative.push_back("b" + trait_text(x, y) + " = " + format_number(b));
+        if (b < 0) negative.push_back("b(" + format_number(x) + ", " + format_number(y) + ") = " + format_number(b));
     }
     if (!negative.empty()) {
         f.add(f.place_any({"rates.birth_cost_dormancy", "rates.birth_cost_transfer", "rates.birth_max",

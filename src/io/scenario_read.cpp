@@ -32,7 +32,7 @@ const Keys run_keys = {"until", "time_unit", "method", "sync", "seed", "threads"
 const Keys output_keys = {"every", "fields_every", "frames_every", "frame_scale"};
 
 constexpr double count_limit = 4611686018427387904.0;  // 2^62: counts stay far from uint64 overflow
-const Bounds count_bounds{0.0, count_limit, false, false, "a whole number >= 0 and below 2^62"};
+const Bounds count_bounds{0.0, count_limit, false, false, "a whole number >= 0 and below 2^62", true};
 const std::string trait_accepted = "[dormancy, transfer], a trait on the grid";
 
 std::string entry_name(const std::string& array, std::size_t i) {

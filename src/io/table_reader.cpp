@@ -24,7 +24,8 @@ std::string bounds_problem(double v, const Bounds& b) {
     if (std::isinf(v)) return "";
     if (v < b.lo || (b.lo_open && v == b.lo))
         return std::string("must be ") + (b.lo_open ? "> " : ">= ") + format_number(b.lo) + ", got " + format_number(v);
-    if (v > b.hi) return "must be <= " + format_number(b.hi) + ", got " + format_number(v);
+    if (v > b.hi || (b.hi_open && v == b.hi))
+        return std::string("must be ") + (b.hi_open ? "< " : "<= ") + format_number(b.hi) + ", got " + format_number(v);
     return "";
 }
 

@@ -21,6 +21,7 @@ struct Bounds {
     bool lo_open = false;   // lo itself is not accepted
     bool allow_inf = false; // +inf is accepted (beyond hi)
     std::string accepted;
+    bool hi_open = false;   // hi itself is not accepted
 
     static Bounds non_negative() { return {0.0, std::numeric_limits<double>::infinity(), false, false, "a finite number >= 0"}; }
     static Bounds positive() { return {0.0, std::numeric_limits<double>::infinity(), true, false, "a finite number > 0"}; }
