@@ -1,0 +1,160 @@
+#include "render/legend.hpp"
+
+#include <algorithm>
+#include <cstdio>
+#include <string>
+
+#include "render/canvas.hpp"
+#include "render/colour_ramps.hpp"
+#include "render/rasteriser.hpp"
+
+namespace tessera {
+
+namespace {
+
+constexpr unsigned title_size = 15;
+constexpr unsigned text_size = 12;
+constexpr unsigned small_size = 11;
+
+std::string number(double v) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%g", v);
+    return buf;
+}
+
+// A pen that moves down the legend; with no image it only measures.
+struct Pen {
+    sf::Image* image;
+    Typeface& font;
+    int x, y, width;
+
+    void text(const std::string& s, unsigned size, Rgb8 colour, int dx = 0) {
+        if (image) font.draw(*image, x + dx, y, s, size, to_sf(colour));
+    }
+    void line(const std::string& s, unsigned size = text_size, Rgb8 colour = text_colour) {
+        text(s, size, colour);
+        y += font.line_height(size) + 2;
+    }
+    void rect(int dx, int dy, int w, int h, Rgb8 colour) {
+        if (image) fill_rect(*image, x + dx, y + dy, w, h, to_sf(colour));
+    }
+    void frame(int dx, int dy, int w, int h, Rgb8 colour) {
+        if (image) outline_rect(*image, x + dx, y + dy, w, h, to_sf(colour));
+    }
+    void wall_swatch(int dx, int dy, int side) {
+        rect(dx, dy, side, side, wall_colour);
+        if (!image) return;
+        for (int j = 0; j < side; ++j) {
+            for (int i = 0; i < side; ++i) {
+                if ((i + j) % 4 == 0) image->setPixel(static_cast<unsigned>(x + dx + i), static_cast<unsigned>(y + dy + j), to_sf(wall_stripe));
+            }
+        }
+    }
+    // A swatch followed by a label on the same line.
+    void keyed(Rgb8 colour, const std::string& label, bool wall = false) {
+        const int side = 14;
+        if (wall) wall_swatch(0, 1, side);
+        else rect(0, 1, side, side, colour);
+        frame(0, 1, side, side, muted_text_colour);
+        text(label, text_size, text_colour, side + 8);
+        y += std::max(side + 2, font.line_height(text_size)) + 3;
+    }
+};
+
+// A horizontal colour bar with labels under its ends and middle.
+void colour_bar(Pen& pen, Rgb8 (*ramp)(double), const std::string& lo, const std::string& mid, const std::string& hi) {
+    const int w = pen.width - 8, h = 16;
+    for (int i = 0; i < w; ++i) pen.rect(i, 0, 1, h, ramp(static_cast<double>(i) / (w - 1)));
+    pen.frame(0, 0, w, h, muted_text_colour);
+    pen.y += h + 3;
+    pen.text(lo, small_size, muted_text_colour);
+    if (!mid.empty()) pen.text(mid, small_size, muted_text_colour, w / 2 - pen.font.width(mid, small_size) / 2);
+    pen.text(hi, small_size, muted_text_colour, w - pen.font.width(hi, small_size));
+    pen.y += pen.font.line_height(small_size) + 6;
+}
+
+void trait_grid(Pen& pen, const FieldSnapshot& s, const TraitPalette& palette) {
+    const TraitGrid& g = s.grid;
+    pen.line("columns: transfer ability", small_size, muted_text_colour);
+    pen.line("rows: dormancy ability", small_size, muted_text_colour);
+    pen.y += 2;
+    // Row labels take the width of the widest dormancy value.
+    int label_w = 0;
+    for (int x = 0; x < g.x_levels(); ++x) label_w = std::max(label_w, pen.font.width(number(x * (g.x_levels() > 1 ? g.dormancy_max() / (g.x_levels() - 1) : 0.0)), small_size));
+    const int left = label_w + 6;
+    const int side = std::min(legend_swatch, (pen.width - left - 8) / std::max(g.y_levels(), 1) - 2);
+    const int step = side + 2;
+    for (int y = 0; y < g.y_levels(); ++y) {
+        const std::string v = number(g.transfer(g.index(0, y)));
+        pen.text(v, small_size, muted_text_colour, left + y * step + (side - pen.font.width(v, small_size)) / 2);
+    }
+    pen.y += pen.font.line_height(small_size) + 1;
+    for (int x = 0; x < g.x_levels(); ++x) {
+        const std::string v = number(g.dormancy(g.index(x, 0)));
+        pen.text(v, small_size, muted_text_colour, left - 6 - pen.font.width(v, small_size));
+        for (int y = 0; y < g.y_levels(); ++y) pen.rect(left + y * step, 0, side, side, palette.colour(x, y));
+        pen.y += step;
+    }
+    pen.y += 8;
+    // How fullness shows: the middle trait at a few fill levels.
+    pen.line("brightness: how full the patch is", small_size, muted_text_colour);
+    pen.line("log(1+N) / log K_p, N = all cells", small_size, muted_text_colour);
+    const Rgb8 c = palette.colour(g.x_levels() / 2, g.y_levels() / 2);
+    const int strip = 6, w = std::min(30, (pen.width - 8) / strip);
+    for (int i = 0; i < strip; ++i) {
+        const double fill = static_cast<double>(i) / (strip - 1);
+        pen.rect(i * w, 0, w, 16, from_sf(mix(to_sf(empty_colour), to_sf(c), fill_weight(fill))));
+    }
+    pen.y += 19;
+    pen.text("1 cell", small_size, muted_text_colour);
+    pen.text("full", small_size, muted_text_colour, strip * w - pen.font.width("full", small_size));
+    pen.y += pen.font.line_height(small_size) + 6;
+}
+
+void habitat_list(Pen& pen, const FieldSnapshot& s) {
+    for (std::size_t c = 0; c < s.scenario.habitats.size(); ++c) {
+        const Habitat& h = s.scenario.habitats[c];
+        const PatchConditions& now = s.conditions[c];
+        Rgb8 colour = {128, 128, 128};
+        if (h.colour.size() == 7 && h.colour[0] == '#') {
+            const auto v = std::stoul(h.colour.substr(1), nullptr, 16);
+            colour = {static_cast<std::uint8_t>(v >> 16), static_cast<std::uint8_t>(v >> 8), static_cast<std::uint8_t>(v)};
+        }
+        pen.keyed(colour, h.name, now.capacity <= 0);
+        pen.line("   capacity " + number(now.capacity) + ", stress " + number(now.stress), small_size, muted_text_colour);
+    }
+}
+
+}  // namespace
+
+int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const FieldSnapshot& s, FieldView view,
+                const TraitPalette& palette) {
+    Pen pen{image, font, x, y, width};
+    pen.line(std::string(view_title(view)), title_size);
+    pen.y += 2;
+    switch (view) {
+        case FieldView::dominant_trait: trait_grid(pen, s, palette); break;
+        case FieldView::dormant_fraction:
+            pen.line("dormant cells / all cells", small_size, muted_text_colour);
+            colour_bar(pen, dormant_ramp, "0 (all active)", "", "1");
+            break;
+        case FieldView::mean_transfer:
+            pen.line("mean transfer ability y of all cells", small_size, muted_text_colour);
+            colour_bar(pen, transfer_ramp, "0", number(s.grid.transfer_max() / 2), number(s.grid.transfer_max()));
+            break;
+        case FieldView::total_exponent:
+            pen.line("log(1+N) / log K, N = all cells", small_size, muted_text_colour);
+            colour_bar(pen, exponent_ramp, "0 (1 cell)", "0.5", "1 (K cells)");
+            break;
+        case FieldView::habitat: habitat_list(pen, s); break;
+        case FieldView::stress:
+            pen.line("extra death rate of active cells", small_size, muted_text_colour);
+            colour_bar(pen, stress_ramp, "0", "", number(s.stress_scale()) + " per unit time");
+            break;
+    }
+    if (view != FieldView::habitat && view != FieldView::stress) pen.keyed(empty_colour, "no cells");
+    pen.keyed(wall_colour, "wall (capacity 0)", true);
+    return pen.y - y;
+}
+
+}  // namespace tessera

@@ -1,0 +1,24 @@
+// Legends: what the colours of a view mean, drawn into the side panel of a frame or the
+// window. The dominant-trait legend is a small grid of swatches laid out like the trait
+// grid (rows: dormancy ability, columns: transfer ability), labelled with the levels, and a
+// strip showing how brightness encodes how full a patch is.
+#pragma once
+
+#include <SFML/Graphics/Image.hpp>
+
+#include "render/field_snapshot.hpp"
+#include "render/field_view.hpp"
+#include "render/trait_palette.hpp"
+#include "render/typeface.hpp"
+
+namespace tessera {
+
+// Draws the legend of `view` with its top-left corner at (x, y), within `width` pixels, and
+// returns the height it takes. With `image == nullptr` it only measures.
+int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const FieldSnapshot& s, FieldView view,
+                const TraitPalette& palette);
+
+// Swatch side in the trait grid legend, exposed for tests that look for the swatches.
+inline constexpr int legend_swatch = 22;
+
+}  // namespace tessera
