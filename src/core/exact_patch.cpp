@@ -7,6 +7,22 @@ namespace tessera {
 namespace {
 // Incremental floating sums drift by rounding; they are rebuilt from the counts this often.
 constexpr std::uint64_t resum_interval = 1u << 16;
+
+// The threshold t such that, for a draw r of the Rng, (r >> 11) < t exactly when
+// rng.uniform() < p, i.e. k * 2^-53 < p for the 53-bit integer k = r >> 11: t = ceil(p 2^53).
+// The integer compare makes the same decision as the floating one, with fewer instructions.
+std::uint64_t threshold53(double p) {
+    if (!(p > 0)) return 0;
+    if (p >= 1) return std::uint64_t{1} << 53;
+    return static_cast<std::uint64_t>(std::ceil(std::ldexp(p, 53)));
+}
+
+bool all_equal(const std::vector<double>& v) {
+    for (double x : v) {
+        if (x != v.front()) return false;
+    }
+    return true;
+}
 }  // namespace
 
 ExactPatch::ExactPatch(const TraitGrid& grid, const RateTable& rates, double K)
@@ -15,12 +31,26 @@ ExactPatch::ExactPatch(const TraitGrid& grid, const RateTable& rates, double K)
       K_(K),
       nx_(grid.x_levels()),
       ny_(grid.y_levels()),
+      x_of_(grid.size()),
+      y_of_(grid.size()),
+      q_threshold_(grid.size()),
       birth_rows_(nx_),
       death_rows_(nx_),
       competition_rows_(nx_),
       active_rows_(nx_),
       dormant_rows_(nx_),
-      transfer_level_(ny_) {}
+      transfer_level_(ny_) {
+    for (int i = 0; i < grid.size(); ++i) {
+        x_of_[i] = grid.x_level(i);
+        y_of_[i] = grid.y_level(i);
+        q_threshold_[i] = threshold53(rates.dormancy_probability[i]);
+    }
+    mu_threshold_ = threshold53(rates.mutation_probability);
+    death_uniform_ = all_equal(rates.death);
+    competition_uniform_ = all_equal(rates.competition);
+    death_rate_ = rates.death.front();
+    competition_rate_ = rates.competition.front();
+}
 
 void ExactPatch::load(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where) {
     A_ = active;
@@ -71,8 +101,8 @@ void ExactPatch::recompute_sums() {
 }
 
 void ExactPatch::add_active(int i, std::int64_t delta) {
-    const int x = i / ny_;
-    const int y = i - x * ny_;
+    const int x = x_of_[i];
+    const int y = y_of_[i];
     const double dd = static_cast<double>(delta);
     // Pairs across transfer levels: one cell more at level y pairs with every active cell at
     // another level; one fewer removes as many (counted after the removal).
@@ -88,39 +118,58 @@ void ExactPatch::add_active(int i, std::int64_t delta) {
         transfer_pairs_ += delta * (active_total_ - transfer_level_[y]);
     }
     active_rows_[x] += delta;
-    birth_rows_[x] += dd * rates_.birth[i];
-    death_rows_[x] += dd * rates_.death[i];
-    competition_rows_[x] += dd * rates_.competition[i];
-    birth_sum_ += dd * rates_.birth[i];
-    death_sum_ += dd * rates_.death[i];
-    competition_sum_ += dd * rates_.competition[i];
+    const double db = dd * rates_.birth[i];
+    birth_rows_[x] += db;
+    birth_sum_ += db;
+    // Sums of trait-independent rates are (rate) x (cells): nothing to keep.
+    if (!death_uniform_) {
+        const double d = dd * rates_.death[i];
+        death_rows_[x] += d;
+        death_sum_ += d;
+    }
+    if (!competition_uniform_) {
+        const double c = dd * rates_.competition[i];
+        competition_rows_[x] += c;
+        competition_sum_ += c;
+    }
 }
 
 void ExactPatch::add_dormant(int i, std::int64_t delta) {
     D_[i] += delta;
-    dormant_rows_[i / ny_] += delta;
+    dormant_rows_[x_of_[i]] += delta;
     dormant_total_ += delta;
+}
+
+ExactPatch::ChannelRates ExactPatch::channel_rates() const {
+    ChannelRates r;
+    const double nd = static_cast<double>(dormant_total_);
+    r.dormant = dormant_rate_ * nd;
+    if (active_total_ > 0) {
+        const double na = static_cast<double>(active_total_);
+        r.birth = birth_sum_;
+        r.death = death_uniform_ ? (death_rate_ + stress_) * na : death_sum_ + stress_ * na;
+        r.competition = (competition_uniform_ ? competition_rate_ * na : competition_sum_) *
+                        (rates_.competition_counts_dormant ? na + nd : na) * inv_Kp_;
+        // No pairs (one transfer level holds every active cell) is common: skip the division.
+        if (transfer_pairs_ > 0) {
+            r.conjugation = (rates_.transfer_form == TransferForm::frequency ? rates_.transfer / na
+                                                                             : rates_.transfer * inv_Kp_) *
+                            static_cast<double>(transfer_pairs_);
+        }
+    }
+    r.total = r.birth + r.death + r.competition + r.conjugation + r.dormant;
+    return r;
 }
 
 double ExactPatch::total_rate() const {
     if (active_total_ == 0 && dormant_total_ == 0) return 0.0;
-    const double na = static_cast<double>(active_total_);
-    const double nc = na + (rates_.competition_counts_dormant ? static_cast<double>(dormant_total_) : 0.0);
-    double r = static_cast<double>(dormant_total_) * dormant_rate_;
-    if (active_total_ > 0) {
-        const double tau = rates_.transfer_form == TransferForm::frequency ? rates_.transfer / na
-                                                                           : rates_.transfer * inv_Kp_;
-        r += birth_sum_ + death_sum_ + stress_ * na + competition_sum_ * nc * inv_Kp_ +
-             tau * static_cast<double>(transfer_pairs_);
-    }
-    return r;
+    return channel_rates().total;
 }
 
 // The trait chosen with probability rate[i] * A[i] / sum, given u uniform on [0, sum).
 // Rounding in the kept sums can leave u past the last positive weight; the last trait with
 // positive weight is then taken. Returns -1 only when no trait has positive weight.
-int ExactPatch::pick_by_rate(const std::vector<double>& row_sums, const std::vector<double>& rate,
-                             double u) const {
+int ExactPatch::pick_by_rate(const double* row_sums, const double* rate, double u) const {
     int last = -1;
     for (int x = 0; x < nx_; ++x) {
         if (!(row_sums[x] > 0)) continue;
@@ -145,8 +194,7 @@ int ExactPatch::pick_by_rate(const std::vector<double>& row_sums, const std::vec
 }
 
 // The trait of the r-th cell (0-based) in trait order, given per-row totals of `counts`.
-int ExactPatch::pick_cell(const std::vector<std::int64_t>& rows, const std::int64_t* counts,
-                          std::uint64_t r) const {
+int ExactPatch::pick_cell(const std::int64_t* rows, const std::int64_t* counts, std::uint64_t r) const {
     for (int x = 0; x < nx_; ++x) {
         const auto row = static_cast<std::uint64_t>(rows[x]);
         if (r >= row) {
@@ -201,14 +249,15 @@ void ExactPatch::conjugate(Rng& rng) {
     }
     const int target = rates_.transfer_copies == TransferCopies::whole
                            ? donor
-                           : grid_.index(grid_.x_level(recipient), grid_.y_level(donor));
+                           : grid_.index(x_of_[recipient], y_of_[donor]);
     add_active(recipient, -1);
     add_active(target, +1);
 }
 
 void ExactPatch::divide(int parent, Rng& rng, EventCounts& counts) {
     int child = parent;
-    if (rates_.mutation_probability > 0 && rng.uniform() < rates_.mutation_probability) {
+    // The same decision as rng.uniform() < mu, as an integer compare (threshold53).
+    if (mu_threshold_ > 0 && (rng() >> 11) < mu_threshold_) {
         const bool back = rates_.mutation_backward > 0 && rng.uniform() < rates_.mutation_backward;
         const MutationTargets& t = back ? rates_.backward[parent] : rates_.forward[parent];
         if (t.count == 2) {
@@ -226,43 +275,47 @@ std::uint64_t ExactPatch::advance(std::int64_t* active, std::int64_t* dormant,
                                   const PatchConditions& where, double duration, Rng& rng,
                                   EventCounts& counts) {
     load(active, dormant, where);
-    const bool frequency = rates_.transfer_form == TransferForm::frequency;
-    const bool count_dormant = rates_.competition_counts_dormant;
+    // With trait-independent natural death, natural death and stress are one channel of
+    // per-cell rate d + stress whose cell is uniform among the active cells.
+    const double death_cell = death_rate_ + stress_;
+    const double inv_death_cell = death_cell > 0 ? 1.0 / death_cell : 0.0;
     std::uint64_t events = 0;
+    std::uint64_t until_resum = resum_interval;
     double t = 0.0;
     for (;;) {
-        if ((events & (resum_interval - 1)) == resum_interval - 1) recompute_sums();
-        const double na = static_cast<double>(active_total_);
-        const double nd = static_cast<double>(dormant_total_);
-        double r_birth = 0, r_death = 0, r_comp = 0, r_conj = 0;
-        if (active_total_ > 0) {
-            r_birth = birth_sum_;
-            r_death = death_sum_ + stress_ * na;
-            r_comp = competition_sum_ * (count_dormant ? na + nd : na) * inv_Kp_;
-            r_conj = (frequency ? rates_.transfer / na : rates_.transfer * inv_Kp_) *
-                     static_cast<double>(transfer_pairs_);
+        if (--until_resum == 0) {
+            recompute_sums();
+            until_resum = resum_interval;
         }
-        const double r_dorm = dormant_rate_ * nd;
-        const double total = r_birth + r_death + r_comp + r_conj + r_dorm;
-        if (!(total > 0)) break;
-        t += rng.exponential() / total;
+        const ChannelRates r = channel_rates();
+        if (!(r.total > 0)) break;
+        t += rng.exponential() / r.total;
         if (t >= duration) break;
         ++events;
 
-        double u = rng.uniform() * total;
-        if (u < r_birth) {
-            const int i = pick_by_rate(birth_rows_, rates_.birth, u);
+        // One uniform chooses the channel; what is left of it, uniform on the chosen
+        // channel's interval and independent of the choice, chooses the cell.
+        double u = rng.uniform() * r.total;
+        if (u < r.birth) {
+            const int i = pick_by_rate(birth_rows_.data(), rates_.birth.data(), u);
             if (i >= 0) divide(i, rng, counts);
             continue;
         }
-        u -= r_birth;
-        if (u < r_death) {
+        u -= r.birth;
+        if (u < r.death) {
             // Natural death (trait-dependent) or stress (the same for every active cell).
             int i;
-            if (u < death_sum_) {
-                i = pick_by_rate(death_rows_, rates_.death, u);
+            if (death_uniform_) {
+                // u uniform on [0, (d + stress) Na): the cell of rank floor(u / (d + stress)),
+                // capped against rounding at the top end.
+                auto rank = static_cast<std::uint64_t>(u * inv_death_cell);
+                const auto na = static_cast<std::uint64_t>(active_total_);
+                if (rank >= na) rank = na - 1;
+                i = pick_cell(active_rows_.data(), A_, rank);
+            } else if (u < death_sum_) {
+                i = pick_by_rate(death_rows_.data(), rates_.death.data(), u);
             } else {
-                i = pick_cell(active_rows_, A_, rng.below(static_cast<std::uint64_t>(active_total_)));
+                i = pick_cell(active_rows_.data(), A_, rng.below(static_cast<std::uint64_t>(active_total_)));
             }
             if (i >= 0) {
                 add_active(i, -1);
@@ -270,12 +323,21 @@ std::uint64_t ExactPatch::advance(std::int64_t* active, std::int64_t* dormant,
             }
             continue;
         }
-        u -= r_death;
-        if (u < r_comp) {
-            const int i = pick_by_rate(competition_rows_, rates_.competition, u * (competition_sum_ / r_comp));
+        u -= r.death;
+        if (u < r.competition) {
+            int i;
+            if (competition_uniform_) {
+                // Every active cell meets competition at the same rate: a uniform cell (a fresh
+                // integer draw, cheaper than dividing u by the per-cell rate).
+                i = pick_cell(active_rows_.data(), A_, rng.below(static_cast<std::uint64_t>(active_total_)));
+            } else {
+                i = pick_by_rate(competition_rows_.data(), rates_.competition.data(),
+                                 u * (competition_sum_ / r.competition));
+            }
             if (i < 0) continue;
             add_active(i, -1);
-            if (rates_.dormancy_probability[i] > 0 && rng.uniform() < rates_.dormancy_probability[i]) {
+            // The same decision as rng.uniform() < q(x) (threshold53).
+            if (q_threshold_[i] > 0 && (rng() >> 11) < q_threshold_[i]) {
                 add_dormant(i, +1);
                 ++counts.dormancies;
             } else {
@@ -283,14 +345,14 @@ std::uint64_t ExactPatch::advance(std::int64_t* active, std::int64_t* dormant,
             }
             continue;
         }
-        u -= r_comp;
-        if (u < r_conj && transfer_pairs_ > 0) {
+        u -= r.competition;
+        if (u < r.conjugation && transfer_pairs_ > 0) {
             conjugate(rng);
             ++counts.conjugations;
             continue;
         }
         if (dormant_total_ > 0) {
-            const int i = pick_cell(dormant_rows_, D_, rng.below(static_cast<std::uint64_t>(dormant_total_)));
+            const int i = pick_cell(dormant_rows_.data(), D_, rng.below(static_cast<std::uint64_t>(dormant_total_)));
             add_dormant(i, -1);
             if (rng.uniform() < dormant_death_share_) {
                 ++counts.dormant_deaths;

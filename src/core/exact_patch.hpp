@@ -8,6 +8,12 @@
 // number of (recipient, donor) pairs with donor y above recipient y is
 // sum_{l<l'} L[l] L[l'], with L[l] the active cells at transfer level l, kept up to date in
 // O(1) per event.
+//
+// Speed (docs/performance.md): a channel whose per-cell rate is the same for every trait
+// (natural death and competition unless a rate override says otherwise) keeps no rate
+// sums at all: its propensity is (rate) x (cells) and its cell is drawn by rank among the
+// integer counts, which is exact and never drifts. Only channels with trait-dependent rates
+// (division always) keep floating sums per row.
 #pragma once
 
 #include <cstdint>
@@ -41,10 +47,14 @@ private:
     void add_active(int trait, std::int64_t delta);
     void add_dormant(int trait, std::int64_t delta);
 
-    int pick_by_rate(const std::vector<double>& row_sums, const std::vector<double>& rate,
-                     double u) const;
-    int pick_cell(const std::vector<std::int64_t>& rows, const std::int64_t* counts,
-                  std::uint64_t r) const;
+    // The propensity of each channel in the loaded state.
+    struct ChannelRates {
+        double birth = 0, death = 0, competition = 0, conjugation = 0, dormant = 0, total = 0;
+    };
+    ChannelRates channel_rates() const;
+
+    int pick_by_rate(const double* row_sums, const double* rate, double u) const;
+    int pick_cell(const std::int64_t* rows, const std::int64_t* counts, std::uint64_t r) const;
     int pick_in_column(int y_level, std::uint64_t r) const;
     void conjugate(Rng& rng);
     void divide(int parent, Rng& rng, EventCounts& counts);
@@ -55,6 +65,14 @@ private:
     const int nx_;
     const int ny_;
 
+    // Per trait, copied from the rate table into one place for the hot loop.
+    std::vector<int> x_of_, y_of_;            // trait -> x level, y level
+    std::vector<std::uint64_t> q_threshold_;  // dormancy probability q as a 64-bit threshold
+    std::uint64_t mu_threshold_ = 0;          // mutation probability as a 64-bit threshold
+    // Natural death and competition rates when every trait has the same (else trait-wise).
+    bool death_uniform_ = false, competition_uniform_ = false;
+    double death_rate_ = 0.0, competition_rate_ = 0.0;
+
     // Loaded patch.
     std::int64_t* A_ = nullptr;
     std::int64_t* D_ = nullptr;
@@ -63,7 +81,8 @@ private:
     double dormant_rate_ = 0.0;   // kappa + sigma * resuscitation factor
     double dormant_death_share_ = 0.0;
 
-    // Sums kept up to date event by event.
+    // Sums kept up to date event by event. The death and competition sums are kept only
+    // when that rate depends on the trait.
     std::int64_t active_total_ = 0;
     std::int64_t dormant_total_ = 0;
     std::vector<double> birth_rows_, death_rows_, competition_rows_;  // per x level
