@@ -316,7 +316,7 @@ TEST_CASE("wrong types are errors") {
 TEST_CASE("unknown choices are errors with a suggestion") {
     expect_error("[run]\ntime_unit = \"logk\"\n", 2, "run.time_unit",
                  {"unknown value \"logk\"", "did you mean \"logK\"", "accepted: \"logK\" or \"plain\""});
-    expect_error("[lattice]\nboundary = \"wrap\"\n", 2, "lattice.boundary", {"\"reflecting\" or \"periodic\" or \"absorbing\""});
+    expect_error("[lattice]\nboundary = \"wrap\"\n", 2, "lattice.boundary", {"accepted: \"reflecting\", \"periodic\" or \"absorbing\""});
     expect_error("[run]\nmethod = \"exact_spatial\"\n", 2, "run.method", {"did you mean \"exact-spatial\""});
     expect_error("[rates]\ntransfer_form = \"dense\"\n", 2, "rates.transfer_form", {"density"});
     expect_error("[rates]\ntransfer_copies = \"all\"\n", 2, "rates.transfer_copies", {"transfer_only"});

@@ -148,7 +148,13 @@ void TableReader::report_bad_choice(std::string_view key, const std::string& wor
     const std::string suggestion = closest_match(word, names);
     std::string message = "unknown value " + toml_string(word);
     if (!suggestion.empty()) message += " (did you mean " + toml_string(suggestion) + "?)";
-    report(key, message + "; accepted: " + join_list(quoted, " or "));
+    // "a", "b" or "c"
+    std::string choices = quoted.back();
+    if (quoted.size() > 1) {
+        quoted.pop_back();
+        choices = join_list(quoted) + " or " + choices;
+    }
+    report(key, message + "; accepted: " + choices);
 }
 
 bool TableReader::pair(std::string_view key, double& a, double& b, std::string_view accepted) {
