@@ -5,6 +5,7 @@
 #include <iostream>
 
 #include "cli/commands.hpp"
+#include "cli/render_commands.hpp"
 #include "version.hpp"
 
 int main(int argc, char** argv) {
@@ -42,6 +43,25 @@ int main(int argc, char** argv) {
     demo_cmd->add_option("--threads", demo.threads, "Worker threads, 0 = all cores")->check(CLI::NonNegativeNumber);
     demo_cmd->add_flag("--quiet", demo.quiet, "No progress bar or messages");
 
+    RenderOptions render;
+    auto* render_cmd = app.add_subcommand("render", "Draw the frames of a finished run from its fields.h5 (no display needed)");
+    render_cmd->add_option("run_dir", render.run_dir, "Output directory of 'tessera run'")->required();
+    render_cmd->add_option("--out", render.out, "Directory for frame_NNNNNN.png")->required();
+    render_cmd->add_option("--view", render.view, "What to show: trait, dormant, transfer, exponent, habitat, stress");
+    render_cmd->add_option("--scale", render.scale, "Pixels per patch (default: output.frame_scale)")->check(CLI::PositiveNumber);
+    render_cmd->add_option("--video", render.video, "Also make a video with ffmpeg (e.g. run.mp4)");
+    render_cmd->add_option("--fps", render.fps, "Frames per second of the video")->check(CLI::PositiveNumber);
+
+    ViewOptions view;
+    auto* view_cmd = app.add_subcommand("view", "Watch a scenario live in a window; press H in the window for the keys");
+    view_cmd->add_option("scenario", view.scenario, "Scenario file (TOML)")->required();
+    view_cmd->add_option("--set", view.sets, "Override a scenario key (repeatable)")->type_name("KEY=VALUE");
+    view_cmd->add_option("--record", view.record, "Directory for frames recorded with the R key");
+    view_cmd->add_option("--view", view.view, "View to start with: trait, dormant, transfer, exponent, habitat, stress");
+    view_cmd->add_option("--frames", view.frames, "Close after this many drawn frames (for tests)")->check(CLI::NonNegativeNumber);
+    view_cmd->add_option("--script", view.script,
+                         "Scripted input, e.g. \"frames=60;key=V;key=Space;click=3,4;screenshot=out.png;quit\"");
+
     try {
         app.parse(argc, argv);
     } catch (const CLI::ParseError& e) {
@@ -53,6 +73,8 @@ int main(int argc, char** argv) {
         if (*run_cmd) return run_command(run);
         if (*check_cmd) return check_command(check);
         if (*demo_cmd) return demo_command(demo);
+        if (*render_cmd) return render_command(render);
+        if (*view_cmd) return view_command(view);
     } catch (const std::exception& e) {
         std::cerr << "internal error: " << e.what() << "\n";
         return 1;

@@ -19,6 +19,7 @@
 #include "io/fields_writer.hpp"
 #include "io/scenario_writer.hpp"
 #include "io/series_writer.hpp"
+#include "render/frame_recorder.hpp"
 
 namespace fs = std::filesystem;
 
@@ -53,8 +54,9 @@ bool append_and_remove(std::FILE* into, const fs::path& part) {
 class ReplicateOutputs : public Observer {
 public:
     ReplicateOutputs(std::FILE* series, std::FILE* habitat_series, std::unique_ptr<FieldsWriter> fields,
-                     Progress& progress, int part)
-        : series_(series), habitat_series_(habitat_series), fields_(std::move(fields)), progress_(progress), part_(part) {}
+                     Progress& progress, int part, std::unique_ptr<FrameRecorder> frames = nullptr)
+        : series_(series), habitat_series_(habitat_series), fields_(std::move(fields)), progress_(progress), part_(part),
+          frames_(std::move(frames)) {}
 
     void observe(const Engine& engine, unsigned kinds) override {
         if (kinds & series_output) {
@@ -66,6 +68,7 @@ public:
             write(habitat_series_);
         }
         if ((kinds & fields_output) && fields_) fields_->append(engine);
+        if ((kinds & frames_output) && frames_) frames_->observe(engine, kinds);
         progress_.report(part_, engine.time() / engine.until());
     }
 
@@ -79,6 +82,7 @@ private:
     std::unique_ptr<FieldsWriter> fields_;
     Progress& progress_;
     int part_;
+    std::unique_ptr<FrameRecorder> frames_;  // replicate 0 only, when output.frames_every > 0
     std::string buffer_;
 };
 
@@ -215,7 +219,12 @@ int run_session(const Scenario& scenario, const std::string& out_dir, const Sess
                 return;
             }
         }
-        ReplicateOutputs outputs(series.handle(r), habitat_series.handle(r), std::move(fields), progress, r);
+        std::unique_ptr<FrameRecorder> frames;
+        if (r == 0 && scenario.frames_every > 0) {
+            frames = std::make_unique<FrameRecorder>(dir / "frames", scenario.frame_scale);
+        }
+        ReplicateOutputs outputs(series.handle(r), habitat_series.handle(r), std::move(fields), progress, r,
+                                 std::move(frames));
         engine.run(outputs, &interrupted);
     });
     progress.finish();

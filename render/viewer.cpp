@@ -1,0 +1,314 @@
+#include "render/viewer.hpp"
+
+#include <SFML/Graphics.hpp>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <iostream>
+#include <optional>
+
+#include "render/canvas.hpp"
+#include "render/colour_ramps.hpp"
+#include "render/frame.hpp"
+#include "render/frame_recorder.hpp"
+#include "render/legend.hpp"
+#include "render/patch_inspector.hpp"
+#include "render/rasteriser.hpp"
+#include "render/sim_worker.hpp"
+#include "render/trait_plot.hpp"
+#include "render/typeface.hpp"
+#include "render/viewer_script.hpp"
+
+namespace tessera {
+
+namespace {
+
+constexpr int panel_w = 300;
+constexpr int bottom_h = 230;
+constexpr int pad = 10;
+
+const char* const help_lines[] = {
+    "Keys",
+    "Space        pause / run",
+    "S or .       one output interval (when paused)",
+    "+ / -        faster / slower",
+    "V            next view (trait, dormant, transfer, exponent, habitat, stress)",
+    "Click        show a patch's counts per trait",
+    "R            start / stop recording frames",
+    "P            screenshot (screenshot_NNN.png)",
+    "N            restart with a new seed",
+    "H or F1      this help",
+    "Q or Esc     quit",
+    "",
+    "tessera is a model for research, not guidance for",
+    "clinical or environmental decisions.",
+};
+
+const char* method_name(Method m) {
+    switch (m) {
+        case Method::auto_select: return "auto";
+        case Method::exact: return "exact";
+        case Method::leap: return "leap";
+        case Method::exact_spatial: return "exact-spatial";
+    }
+    return "?";
+}
+
+std::string format(const char* fmt, double v) {
+    char buf[96];
+    std::snprintf(buf, sizeof buf, fmt, v);
+    return buf;
+}
+
+// Where the lattice sits in the window and at what scale.
+struct LatticePlace {
+    int x = 0, y = 0, scale = 1;
+};
+
+LatticePlace place_lattice(const FieldSnapshot& s, unsigned W, unsigned H) {
+    const int area_w = std::max(static_cast<int>(W) - panel_w - 2 * pad, 1);
+    const int area_h = std::max(static_cast<int>(H) - bottom_h - 2 * pad, 1);
+    LatticePlace p;
+    p.scale = std::max(1, std::min(area_w / std::max(s.width, 1), area_h / std::max(s.height, 1)));
+    p.x = pad + (area_w - s.width * p.scale) / 2;
+    p.y = pad + (area_h - s.height * p.scale) / 2;
+    p.x = std::max(p.x, pad);
+    p.y = std::max(p.y, pad);
+    return p;
+}
+
+class Viewer {
+public:
+    Viewer(const Scenario& scenario, const ViewerOptions& o)
+        : scenario_(scenario), options_(o), worker_(scenario), palette_(TraitGrid(scenario.dormancy_axis, scenario.transfer_axis)),
+          view_(o.view) {}
+
+    int run();
+
+private:
+    void handle_key(sf::Keyboard::Key key);
+    void select(int col, int row);
+    void compose(unsigned W, unsigned H);
+    void draw_panel(int x, int W, int H);
+    void draw_help(unsigned W, unsigned H);
+    void screenshot(const std::string& file);
+    void toggle_recording();
+
+    Scenario scenario_;
+    ViewerOptions options_;
+    SimWorker worker_;
+    TraitPalette palette_;
+    Typeface font_;
+    FieldView view_;
+    FieldSnapshot snapshot_;
+    std::vector<TraitHistoryPoint> history_;
+    std::uint64_t version_ = 0;
+    std::optional<std::size_t> selected_;
+    bool help_ = false;
+    std::unique_ptr<FrameRecorder> recorder_;
+    int screenshots_ = 0;
+    sf::Image canvas_;
+    LatticePlace place_;
+    std::string message_;  // last action, shown in the panel
+};
+
+void Viewer::handle_key(sf::Keyboard::Key key) {
+    switch (key) {
+        case sf::Keyboard::Space:
+            worker_.set_paused(!worker_.paused());
+            message_ = worker_.paused() ? "paused" : "running";
+            break;
+        case sf::Keyboard::S:
+        case sf::Keyboard::Period:
+            if (!worker_.paused()) worker_.set_paused(true);
+            worker_.step_once();
+            message_ = "one step";
+            break;
+        case sf::Keyboard::Add:
+        case sf::Keyboard::Equal: worker_.set_speed(worker_.speed() * 2.0); break;
+        case sf::Keyboard::Subtract:
+        case sf::Keyboard::Hyphen: worker_.set_speed(worker_.speed() / 2.0); break;
+        case sf::Keyboard::V: view_ = next_view(view_); break;
+        case sf::Keyboard::R: toggle_recording(); break;
+        case sf::Keyboard::P: screenshot("screenshot_" + std::to_string(screenshots_++) + ".png"); break;
+        case sf::Keyboard::N:
+            worker_.restart(worker_.seed() + 1);
+            message_ = "restarted, seed " + std::to_string(worker_.seed());
+            break;
+        case sf::Keyboard::H:
+        case sf::Keyboard::F1: help_ = !help_; break;
+        default: break;
+    }
+}
+
+void Viewer::toggle_recording() {
+    if (recorder_) {
+        message_ = "recorded " + std::to_string(recorder_->frames()) + " frames to " + recorder_->directory().string();
+        recorder_.reset();
+        return;
+    }
+    recorder_ = std::make_unique<FrameRecorder>(options_.record_dir, std::max(scenario_.frame_scale, place_.scale), view_);
+    recorder_->write(snapshot_);
+    message_ = "recording to " + options_.record_dir;
+}
+
+void Viewer::select(int col, int row) {
+    if (col >= 0 && row >= 0 && col < snapshot_.width && row < snapshot_.height) {
+        selected_ = static_cast<std::size_t>(row) * snapshot_.width + col;
+    }
+}
+
+void Viewer::screenshot(const std::string& file) {
+    message_ = canvas_.saveToFile(file) ? "saved " + file : "cannot write " + file;
+    std::cout << message_ << "\n";
+}
+
+void Viewer::draw_panel(int x, int W, int H) {
+    fill_rect(canvas_, x, 0, W - x, H, to_sf(panel_colour));
+    const int tx = x + pad, tw = W - x - 2 * pad;
+    int y = pad;
+    auto line = [&](const std::string& s, unsigned size, Rgb8 colour) {
+        font_.draw(canvas_, tx, y, s, size, to_sf(colour));
+        y += font_.line_height(size) + 3;
+    };
+    std::string title = scenario_.title.empty() ? "tessera" : scenario_.title;
+    while (title.size() > 4 && font_.width(title, 13) > tw) title = title.substr(0, title.size() - 4) + "...";
+    line(title, 13, text_colour);
+    line(time_stamp(snapshot_.t, snapshot_.t_logK) + (worker_.finished() ? "  (end)" : ""), 13, text_colour);
+    line(format("K = %g", scenario_.K) + "   method " + method_name(scenario_.method) +
+             "   seed " + std::to_string(worker_.seed()), 11, muted_text_colour);
+    line(format("speed %.3g time units / s", worker_.speed()) + (worker_.paused() ? "   PAUSED" : ""), 11,
+         worker_.paused() ? Rgb8{255, 200, 90} : muted_text_colour);
+    if (recorder_) line("REC " + std::to_string(recorder_->frames()) + " frames", 11, Rgb8{255, 110, 100});
+    if (!message_.empty()) line(message_, 11, muted_text_colour);
+    line("H: keys and help", 11, muted_text_colour);
+    y += 6;
+    draw_legend(&canvas_, font_, tx, y, tw, snapshot_, view_, palette_);
+}
+
+void Viewer::draw_help(unsigned W, unsigned H) {
+    const int w = 520, h = 30 + static_cast<int>(std::size(help_lines)) * (font_.line_height(13) + 4);
+    const int x = (static_cast<int>(W) - w) / 2, y = (static_cast<int>(H) - h) / 2;
+    for (int j = 0; j < h; ++j) {
+        for (int i = 0; i < w; ++i) blend_pixel(canvas_, x + i, y + j, sf::Color(12, 12, 16), 0.9);
+    }
+    outline_rect(canvas_, x, y, w, h, to_sf(muted_text_colour));
+    int ty = y + 14;
+    for (const std::string l : help_lines) {
+        // "KEY   what it does": the key in its own column (the font is proportional).
+        const std::size_t gap = l.find("  ");
+        const bool keyed = gap != std::string::npos && l.rfind("tessera", 0) != 0;
+        font_.draw(canvas_, x + 18, ty, keyed ? l.substr(0, gap) : l, 13, to_sf(text_colour));
+        if (keyed) font_.draw(canvas_, x + 130, ty, l.substr(l.find_first_not_of(' ', gap)), 13, to_sf(muted_text_colour));
+        ty += font_.line_height(13) + 4;
+    }
+}
+
+void Viewer::compose(unsigned W, unsigned H) {
+    canvas_.create(W, H, to_sf(empty_colour));
+    fill_rect(canvas_, 0, 0, static_cast<int>(W), static_cast<int>(H), sf::Color(26, 27, 33));
+    place_ = place_lattice(snapshot_, W, H);
+    paste(canvas_, rasterise(snapshot_, view_, place_.scale, palette_), place_.x, place_.y);
+    if (selected_) {
+        const int col = static_cast<int>(*selected_ % static_cast<std::size_t>(snapshot_.width));
+        const int row = static_cast<int>(*selected_ / static_cast<std::size_t>(snapshot_.width));
+        outline_rect(canvas_, place_.x + col * place_.scale - 1, place_.y + row * place_.scale - 1, place_.scale + 2,
+                     place_.scale + 2, sf::Color::White);
+    }
+    const int panel_x = static_cast<int>(W) - panel_w;
+    const int bottom_y = static_cast<int>(H) - bottom_h;
+    const int plot_w = selected_ ? (panel_x - 2 * pad) * 3 / 5 : panel_x - 2 * pad;
+    draw_trait_plot(canvas_, font_, pad, bottom_y, plot_w, bottom_h - pad, history_, scenario_.until * (scenario_.time_unit == TimeUnit::logK ? 1.0 : 1.0 / std::log(scenario_.K)), palette_);
+    if (selected_) {
+        draw_patch_inspector(canvas_, font_, 2 * pad + plot_w, bottom_y, panel_x - 3 * pad - plot_w, bottom_h - pad,
+                             snapshot_, *selected_, palette_);
+    } else {
+        font_.draw(canvas_, pad + 8, bottom_y - font_.line_height(11) - 4, "click a patch to see its counts per trait", 11,
+                   to_sf(muted_text_colour));
+    }
+    draw_panel(panel_x, static_cast<int>(W), static_cast<int>(H));
+    if (help_) draw_help(W, H);
+}
+
+int Viewer::run() {
+    std::vector<ScriptStep> script;
+    try {
+        script = parse_viewer_script(options_.script);
+    } catch (const std::invalid_argument& e) {
+        std::cerr << "error: " << e.what() << "\n";
+        return 2;
+    }
+    if (!std::getenv("DISPLAY") && !std::getenv("WAYLAND_DISPLAY")) {
+        std::cerr << "error: tessera view needs a display (none is set: DISPLAY is empty). On a machine without one,\n"
+                     "use 'tessera run' with output.frames_every, or 'xvfb-run -a tessera view ...'\n";
+        return 1;
+    }
+    sf::RenderWindow window(sf::VideoMode(1280, 860), "tessera view: " + scenario_.title);
+    window.setFramerateLimit(30);
+    sf::Texture texture;
+    std::size_t next_step = 0;
+    int wait_frames = 0;
+    int drawn = 0;
+    version_ = worker_.fetch(0, snapshot_, history_);
+    while (window.isOpen()) {
+        sf::Event event;
+        while (window.pollEvent(event)) {
+            if (event.type == sf::Event::Closed) window.close();
+            if (event.type == sf::Event::Resized) {
+                window.setView(sf::View(sf::FloatRect(0, 0, static_cast<float>(event.size.width), static_cast<float>(event.size.height))));
+            }
+            if (event.type == sf::Event::KeyPressed) {
+                if (event.key.code == sf::Keyboard::Escape || event.key.code == sf::Keyboard::Q) window.close();
+                else handle_key(event.key.code);
+            }
+            if (event.type == sf::Event::MouseButtonPressed && event.mouseButton.button == sf::Mouse::Left) {
+                const int mx = event.mouseButton.x - place_.x, my = event.mouseButton.y - place_.y;
+                if (mx >= 0 && my >= 0) select(mx / place_.scale, my / place_.scale);
+            }
+        }
+        if (!window.isOpen()) break;
+
+        // Scripted input: one command per frame, `frames=N` waits N frames.
+        if (wait_frames > 0) {
+            --wait_frames;
+        } else if (next_step < script.size()) {
+            const ScriptStep& s = script[next_step++];
+            switch (s.kind) {
+                case ScriptStep::Kind::frames: wait_frames = s.count; break;
+                case ScriptStep::Kind::key:
+                    if (s.key == sf::Keyboard::Escape || s.key == sf::Keyboard::Q) window.close();
+                    else handle_key(s.key);
+                    break;
+                case ScriptStep::Kind::click: select(s.col, s.row); break;
+                case ScriptStep::Kind::screenshot: screenshot(s.file); break;
+                case ScriptStep::Kind::quit: window.close(); break;
+            }
+            if (!window.isOpen()) break;
+        }
+
+        const std::uint64_t v = worker_.fetch(version_, snapshot_, history_);
+        if (v != version_ && recorder_) recorder_->write(snapshot_);
+        version_ = v;
+        const sf::Vector2u size = window.getSize();
+        compose(size.x, size.y);
+        if (texture.getSize() != size) texture.create(size.x, size.y);
+        texture.update(canvas_);
+        window.clear();
+        window.draw(sf::Sprite(texture));
+        window.display();
+        if (options_.frames > 0 && ++drawn >= options_.frames) window.close();
+    }
+    if (recorder_) std::cout << "recorded " << recorder_->frames() << " frames to " << recorder_->directory().string() << "\n";
+    return 0;
+}
+
+}  // namespace
+
+int run_viewer(const Scenario& scenario, const ViewerOptions& options) {
+    Viewer viewer(scenario, options);
+    return viewer.run();
+}
+
+}  // namespace tessera

@@ -1,0 +1,26 @@
+// The live window (`tessera view`): the lattice scaled to fit, a side panel (time plain and
+// t / ln K, K, method, speed, legend), a live plot of every trait's exponent, and the
+// clicked patch in detail. The whole window is composed on the CPU with the same
+// rasteriser and legends as recorded frames, then shown with SFML; the simulation runs in
+// a worker thread (SimWorker).
+#pragma once
+
+#include <string>
+
+#include "core/scenario.hpp"
+#include "render/field_view.hpp"
+
+namespace tessera {
+
+struct ViewerOptions {
+    std::string record_dir = "tessera-recording";  // where R records frames
+    std::string script;                            // see render/viewer_script.hpp
+    int frames = 0;                                // close after this many frames; 0 = never
+    FieldView view = FieldView::dominant_trait;
+};
+
+// Opens the window and runs until it is closed. Returns the exit code (0; 2 for a bad
+// script; 1 when no window can be opened, with a message).
+int run_viewer(const Scenario& scenario, const ViewerOptions& options);
+
+}  // namespace tessera

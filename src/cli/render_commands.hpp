@@ -1,0 +1,33 @@
+// The two picture commands: `tessera render` (frames from a finished run's fields.h5) and
+// `tessera view` (the live window). Kept apart from commands.hpp so the render library is
+// the only graphics dependency of the command line.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace tessera::cli {
+
+struct RenderOptions {
+    std::string run_dir;
+    std::string out;
+    std::string view = "trait";
+    std::string video;          // "" = none; otherwise an .mp4 made with ffmpeg
+    std::optional<int> scale;   // pixels per patch; default output.frame_scale of the run
+    double fps = 10.0;
+};
+
+struct ViewOptions {
+    std::string scenario;
+    std::vector<std::string> sets;
+    std::string record;         // directory for recorded frames ("" = tessera-recording when R is pressed)
+    std::string script;         // scripted input, for tests and demos
+    int frames = 0;             // close after this many drawn frames (0: when the user closes it)
+    std::string view = "trait";
+};
+
+int render_command(const RenderOptions& options);
+int view_command(const ViewOptions& options);
+
+}  // namespace tessera::cli
