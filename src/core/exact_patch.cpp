@@ -61,6 +61,11 @@ void ExactPatch::load(std::int64_t* active, std::int64_t* dormant, const PatchCo
     const double resus = rates_.resuscitation * where.resuscitation;
     dormant_rate_ = rates_.dormant_death + resus;
     dormant_death_share_ = dormant_rate_ > 0 ? rates_.dormant_death / dormant_rate_ : 0.0;
+    death_per_cell_ = death_rate_ + stress_;
+    competition_scale_ = (competition_uniform_ ? competition_rate_ : 1.0) * inv_Kp_;
+    transfer_density_ = rates_.transfer * inv_Kp_;
+    frequency_ = rates_.transfer_form == TransferForm::frequency;
+    count_dormant_ = rates_.competition_counts_dormant;
     recompute_sums();
 }
 
@@ -140,20 +145,21 @@ void ExactPatch::add_dormant(int i, std::int64_t delta) {
     dormant_total_ += delta;
 }
 
-ExactPatch::ChannelRates ExactPatch::channel_rates() const {
+// Inlined into the event loop (it runs once per event); the per-call constants come from
+// load().
+[[gnu::always_inline]] inline ExactPatch::ChannelRates ExactPatch::channel_rates() const {
     ChannelRates r;
     const double nd = static_cast<double>(dormant_total_);
     r.dormant = dormant_rate_ * nd;
     if (active_total_ > 0) {
         const double na = static_cast<double>(active_total_);
         r.birth = birth_sum_;
-        r.death = death_uniform_ ? (death_rate_ + stress_) * na : death_sum_ + stress_ * na;
-        r.competition = (competition_uniform_ ? competition_rate_ * na : competition_sum_) *
-                        (rates_.competition_counts_dormant ? na + nd : na) * inv_Kp_;
+        r.death = death_uniform_ ? death_per_cell_ * na : death_sum_ + stress_ * na;
+        r.competition = (competition_uniform_ ? na : competition_sum_) * competition_scale_ *
+                        (count_dormant_ ? na + nd : na);
         // No pairs (one transfer level holds every active cell) is common: skip the division.
         if (transfer_pairs_ > 0) {
-            r.conjugation = (rates_.transfer_form == TransferForm::frequency ? rates_.transfer / na
-                                                                             : rates_.transfer * inv_Kp_) *
+            r.conjugation = (frequency_ ? rates_.transfer / na : transfer_density_) *
                             static_cast<double>(transfer_pairs_);
         }
     }
@@ -277,8 +283,7 @@ std::uint64_t ExactPatch::advance(std::int64_t* active, std::int64_t* dormant,
     load(active, dormant, where);
     // With trait-independent natural death, natural death and stress are one channel of
     // per-cell rate d + stress whose cell is uniform among the active cells.
-    const double death_cell = death_rate_ + stress_;
-    const double inv_death_cell = death_cell > 0 ? 1.0 / death_cell : 0.0;
+    const double inv_death_cell = death_per_cell_ > 0 ? 1.0 / death_per_cell_ : 0.0;
     std::uint64_t events = 0;
     std::uint64_t until_resum = resum_interval;
     double t = 0.0;

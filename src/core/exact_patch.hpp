@@ -80,6 +80,11 @@ private:
     double stress_ = 0.0;
     double dormant_rate_ = 0.0;   // kappa + sigma * resuscitation factor
     double dormant_death_share_ = 0.0;
+    double death_per_cell_ = 0.0;     // d + stress, when d is trait-independent
+    double competition_scale_ = 0.0;  // (C when trait-independent, else 1) / K_p
+    double transfer_density_ = 0.0;   // tau / K_p
+    bool frequency_ = true;           // transfer_form == frequency
+    bool count_dormant_ = false;      // competition_counts_dormant
 
     // Sums kept up to date event by event. The death and competition sums are kept only
     // when that rate depends on the trait.
