@@ -1,0 +1,96 @@
+// Simulated time per second of the leap engine (docs/performance.md, "Large populations").
+//
+//  * one patch, the default 9-trait scenario (src/core/scenario.hpp), K = 1e3 .. 1e12,
+//    LeapPatch driven in steps of the default sync (0.01), as the engine's local phase does;
+//    after a burn-in of 40 time units from K cells of trait (0,0) (bench_case.hpp), so that
+//    the timed part sees the long-run mix of traits. One iteration is one unit of plain time.
+//    The exact engine at K = 1e3 and 1e4 is there for comparison.
+//  * the default scenario on a 64 x 64 lattice at K = 1e6, every patch inoculated with K
+//    cells of (0,0), method "auto" (the Engine: leap, exact, migration), 2 time units of
+//    burn-in, one iteration = 0.1 unit of plain time.
+//
+//   build-leap/tests/bench/bench_leap --benchmark_counters_tabular=true
+//
+// Counters: `time/s` (simulated plain time per wall second), `leaps/unit` and
+// `exact/unit` (exact events per unit time inside the leap engine).
+#include <benchmark/benchmark.h>
+#include <tbb/global_control.h>
+
+#include "bench_case.hpp"
+#include "core/engine.hpp"
+#include "core/leap_patch.hpp"
+
+namespace {
+
+using tessera::bench::Case;
+using namespace tessera;
+
+void leap_one_patch(benchmark::State& state, double K) {
+    Case c(K, 3);
+    LeapPatch leap(c.grid, c.rates, K);
+    std::uint64_t step = 0;
+    auto run = [&](double duration) {
+        const int steps = static_cast<int>(duration / c.scenario.sync + 0.5);
+        for (int k = 0; k < steps; ++k) {
+            Rng rng(StreamKey{1, 0, 0}, step++, Phase::local);
+            leap.advance(c.active.data(), c.dormant.data(), c.where, c.scenario.sync, rng, c.counts);
+        }
+    };
+    run(Case::burn_in);
+    leap.reset_stats();
+    double simulated = 0;
+    for (auto _ : state) {
+        run(1.0);
+        simulated += 1.0;
+    }
+    state.counters["time/s"] = benchmark::Counter(simulated, benchmark::Counter::kIsRate);
+    state.counters["leaps/unit"] = static_cast<double>(leap.stats().leaps) / simulated;
+    state.counters["exact/unit"] = static_cast<double>(leap.stats().exact_events) / simulated;
+    state.counters["rejected"] = static_cast<double>(leap.stats().rejected);
+    state.counters["active"] = static_cast<double>(c.active_total());
+    state.counters["resident"] = c.resident();
+}
+
+void exact_one_patch(benchmark::State& state, double K) {
+    Case c(K, 3);
+    c.run(Case::burn_in);
+    double simulated = 0;
+    for (auto _ : state) {
+        c.run(1.0);
+        simulated += 1.0;
+    }
+    state.counters["time/s"] = benchmark::Counter(simulated, benchmark::Counter::kIsRate);
+    state.counters["active"] = static_cast<double>(c.active_total());
+}
+
+void lattice_auto(benchmark::State& state, int side, double K) {
+    tbb::global_control threads(tbb::global_control::max_allowed_parallelism, 2);
+    Scenario s = Case::make_scenario(K, 3);
+    s.width = s.height = side;
+    s.habitats = {Habitat{}};
+    s.habitat_of_patch.assign(static_cast<std::size_t>(side) * side, 0);
+    s.inocula.front().where = Inoculum::Where::all;
+    s.time_unit = TimeUnit::plain;
+    Engine engine(s);
+    engine.advance_to(2.0);
+    double simulated = 0;
+    for (auto _ : state) {
+        engine.advance_to(engine.time() + 0.1);
+        simulated += 0.1;
+    }
+    state.counters["time/s"] = benchmark::Counter(simulated, benchmark::Counter::kIsRate);
+    state.counters["patches"] = static_cast<double>(engine.lattice().patches());
+}
+
+BENCHMARK_CAPTURE(leap_one_patch, K1e3, 1e3)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(leap_one_patch, K1e4, 1e4)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(leap_one_patch, K1e6, 1e6)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(leap_one_patch, K1e9, 1e9)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(leap_one_patch, K1e12, 1e12)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(exact_one_patch, K1e3, 1e3)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(exact_one_patch, K1e4, 1e4)->Unit(benchmark::kMillisecond);
+BENCHMARK_CAPTURE(lattice_auto, 64x64_K1e6, 64, 1e6)->Unit(benchmark::kMillisecond)->UseRealTime()->MinTime(3.0);
+
+}  // namespace
+
+BENCHMARK_MAIN();
