@@ -490,7 +490,7 @@ TEST_CASE("TOML syntax errors and missing files are diagnostics") {
     }
 }
 
-TEST_CASE("--set overrides go through the same checks") {
+TEST_CASE("overrides given with --set go through the same checks") {
     const std::string file = "[rates]\ntransfer = 10.0\n[[habitat]]\nname = \"open\"\n";
     const Scenario s = parse_scenario(file, "set.toml",
                                       {"rates.transfer=0", "scale.K=1e5", "run.method=exact", "traits.dormancy.levels=5",
