@@ -28,6 +28,14 @@ void append_number(std::string& out, double v) {
     out += buf;
 }
 
+// Times with 12 significant digits: output times are multiples of an interval, and the
+// last bits of j * every (or of t / ln K) are rounding, not information.
+void append_time(std::string& out, double t) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.12g", t);
+    out += buf;
+}
+
 // Per-trait totals over the patches of one class (class < 0: every patch), in patch order.
 void sum_counts(const Engine& engine, int habitat_class, std::vector<std::int64_t>& active,
                 std::vector<std::int64_t>& dormant) {
@@ -50,9 +58,9 @@ void sum_counts(const Engine& engine, int habitat_class, std::vector<std::int64_
 void append_time_prefix(const Engine& engine, std::string& out) {
     out += std::to_string(engine.replicate());
     out += ',';
-    append_number(out, engine.time());
+    append_time(out, engine.time());
     out += ',';
-    append_number(out, engine.time_logK());
+    append_time(out, engine.time_logK());
     out += ',';
 }
 
