@@ -9,6 +9,7 @@
 #include <random>
 
 #include "core/exact_patch.hpp"
+#include "core/exact_spatial.hpp"
 #include "core/leap_patch.hpp"
 #include "core/rng.hpp"
 
@@ -21,6 +22,8 @@ struct Engine::Scratch {
     std::vector<std::int64_t> outbox;
     std::vector<std::uint64_t> lost_per_patch;
     std::vector<std::uint64_t> sent_per_patch;
+    std::unique_ptr<ExactSpatial> spatial;  // method = "exact-spatial" only
+    std::vector<PatchConditions> patch_conditions;
 
     Scratch(const TraitGrid& g, const RateTable& r, double K) : exact(g, r, K), leap(g, r, K) {}
 };
@@ -38,6 +41,9 @@ bool has_cells(const std::int64_t* a, const std::int64_t* d, int traits) {
 // below a few hundred events the exact engine costs no more than a leap's Poisson draws,
 // and it is exact. The leap engine itself still simulates small traits event by event.
 constexpr double auto_leap_events = 300.0;
+
+// The stream of the exact spatial engine, which draws for the whole lattice at once.
+constexpr std::uint32_t lattice_stream = 0xFFFFFFFFu;
 
 // Snap times that differ only by rounding, so that output times are met exactly.
 bool reached(double t, double target) { return t >= target - 1e-12 * std::max(1.0, std::fabs(target)); }
@@ -138,12 +144,31 @@ void Engine::advance_to(double t_end) {
 
 void Engine::step(double dt) {
     class_conditions_ = timeline_.at(time_);
+    if (scenario_.method == Method::exact_spatial) {
+        exact_spatial_step(dt);
+        ++step_;
+        return;
+    }
     local_phase(dt);
     if (lattice_.patches() > 1 &&
         (scenario_.rates.migration > 0 || scenario_.rates.migration_dormant > 0)) {
         migration_phase(dt);
     }
     ++step_;
+}
+
+// The reference: one exact process over the whole lattice, serial, one random stream for the
+// lattice (keyed by the patch number no patch has).
+void Engine::exact_spatial_step(double dt) {
+    Scratch& s = *scratch_;
+    if (!s.spatial) s.spatial = std::make_unique<ExactSpatial>(traits_, rates_, scenario_);
+    s.patch_conditions.resize(lattice_.patches());
+    for (std::size_t p = 0; p < lattice_.patches(); ++p) s.patch_conditions[p] = conditions(p);
+    Rng rng({scenario_.seed, replicate_, lattice_stream}, step_, Phase::local);
+    ExactSpatial::Tally tally;
+    s.spatial->advance(lattice_, s.patch_conditions, dt, rng, patch_counts_, tally);
+    lost_ += tally.lost;
+    migrants_ += tally.migrants;
 }
 
 void Engine::local_phase(double dt) {

@@ -8,7 +8,8 @@
 //                         in a fixed direction order.
 //
 // Random numbers are keyed by (seed, replicate, patch) and countered by (step, phase), so
-// the result does not depend on the number of threads. The engine knows nothing of files or
+// the result does not depend on the number of threads. With method = "exact-spatial" a step
+// is instead one exact process over the whole lattice (next-subvolume method), serial. The engine knows nothing of files or
 // windows: observers are handed a read-only engine at output times.
 #pragma once
 
@@ -74,6 +75,7 @@ public:
 private:
     void step(double dt);
     void local_phase(double dt);
+    void exact_spatial_step(double dt);
     void migration_phase(double dt);
     void inoculate();
 

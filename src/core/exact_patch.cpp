@@ -52,7 +52,7 @@ ExactPatch::ExactPatch(const TraitGrid& grid, const RateTable& rates, double K)
     competition_rate_ = rates.competition.front();
 }
 
-void ExactPatch::load(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where) {
+void ExactPatch::attach(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where) {
     A_ = active;
     D_ = dormant;
     const double Kp = K_ * where.capacity;
@@ -62,6 +62,9 @@ void ExactPatch::load(std::int64_t* active, std::int64_t* dormant, const PatchCo
     dormant_rate_ = rates_.dormant_death + resus;
     dormant_death_share_ = dormant_rate_ > 0 ? rates_.dormant_death / dormant_rate_ : 0.0;
     death_per_cell_ = death_rate_ + stress_;
+    // With trait-independent natural death, natural death and stress are one channel of
+    // per-cell rate d + stress whose cell is uniform among the active cells.
+    inv_death_cell_ = death_per_cell_ > 0 ? 1.0 / death_per_cell_ : 0.0;
     competition_scale_ = (competition_uniform_ ? competition_rate_ : 1.0) * inv_Kp_;
     transfer_density_ = rates_.transfer * inv_Kp_;
     frequency_ = rates_.transfer_form == TransferForm::frequency;
@@ -146,7 +149,7 @@ void ExactPatch::add_dormant(int i, std::int64_t delta) {
 }
 
 // Inlined into the event loop (it runs once per event); the per-call constants come from
-// load().
+// attach().
 [[gnu::always_inline]] inline ExactPatch::ChannelRates ExactPatch::channel_rates() const {
     ChannelRates r;
     const double nd = static_cast<double>(dormant_total_);
@@ -277,13 +280,81 @@ void ExactPatch::divide(int parent, Rng& rng, EventCounts& counts) {
     ++counts.births;
 }
 
+// One event, given u uniform on [0, r.total): one uniform chooses the channel; what is left
+// of it, uniform on the chosen channel's interval and independent of the choice, chooses
+// the cell.
+inline void ExactPatch::execute(double u, const ChannelRates& r, Rng& rng, EventCounts& counts) {
+    if (u < r.birth) {
+        const int i = pick_by_rate(birth_rows_.data(), rates_.birth.data(), u);
+        if (i >= 0) divide(i, rng, counts);
+        return;
+    }
+    u -= r.birth;
+    if (u < r.death) {
+        // Natural death (trait-dependent) or stress (the same for every active cell).
+        int i;
+        if (death_uniform_) {
+            // u uniform on [0, (d + stress) Na): the cell of rank floor(u / (d + stress)),
+            // capped against rounding at the top end.
+            auto rank = static_cast<std::uint64_t>(u * inv_death_cell_);
+            const auto na = static_cast<std::uint64_t>(active_total_);
+            if (rank >= na) rank = na - 1;
+            i = pick_cell(active_rows_.data(), A_, rank);
+        } else if (u < death_sum_) {
+            i = pick_by_rate(death_rows_.data(), rates_.death.data(), u);
+        } else {
+            i = pick_cell(active_rows_.data(), A_, rng.below(static_cast<std::uint64_t>(active_total_)));
+        }
+        if (i >= 0) {
+            add_active(i, -1);
+            ++counts.deaths;
+        }
+        return;
+    }
+    u -= r.death;
+    if (u < r.competition) {
+        int i;
+        if (competition_uniform_) {
+            // Every active cell meets competition at the same rate: a uniform cell (a fresh
+            // integer draw, cheaper than dividing u by the per-cell rate).
+            i = pick_cell(active_rows_.data(), A_, rng.below(static_cast<std::uint64_t>(active_total_)));
+        } else {
+            i = pick_by_rate(competition_rows_.data(), rates_.competition.data(),
+                             u * (competition_sum_ / r.competition));
+        }
+        if (i < 0) return;
+        add_active(i, -1);
+        // The same decision as rng.uniform() < q(x) (threshold53).
+        if (q_threshold_[i] > 0 && (rng() >> 11) < q_threshold_[i]) {
+            add_dormant(i, +1);
+            ++counts.dormancies;
+        } else {
+            ++counts.competition_deaths;
+        }
+        return;
+    }
+    u -= r.competition;
+    if (u < r.conjugation && transfer_pairs_ > 0) {
+        conjugate(rng);
+        ++counts.conjugations;
+        return;
+    }
+    if (dormant_total_ > 0) {
+        const int i = pick_cell(dormant_rows_.data(), D_, rng.below(static_cast<std::uint64_t>(dormant_total_)));
+        add_dormant(i, -1);
+        if (rng.uniform() < dormant_death_share_) {
+            ++counts.dormant_deaths;
+        } else {
+            add_active(i, +1);
+            ++counts.resuscitations;
+        }
+    }
+}
+
 std::uint64_t ExactPatch::advance(std::int64_t* active, std::int64_t* dormant,
                                   const PatchConditions& where, double duration, Rng& rng,
                                   EventCounts& counts) {
-    load(active, dormant, where);
-    // With trait-independent natural death, natural death and stress are one channel of
-    // per-cell rate d + stress whose cell is uniform among the active cells.
-    const double inv_death_cell = death_per_cell_ > 0 ? 1.0 / death_per_cell_ : 0.0;
+    attach(active, dormant, where);
     std::uint64_t events = 0;
     std::uint64_t until_resum = resum_interval;
     double t = 0.0;
@@ -297,77 +368,17 @@ std::uint64_t ExactPatch::advance(std::int64_t* active, std::int64_t* dormant,
         t += rng.exponential() / r.total;
         if (t >= duration) break;
         ++events;
-
-        // One uniform chooses the channel; what is left of it, uniform on the chosen
-        // channel's interval and independent of the choice, chooses the cell.
-        double u = rng.uniform() * r.total;
-        if (u < r.birth) {
-            const int i = pick_by_rate(birth_rows_.data(), rates_.birth.data(), u);
-            if (i >= 0) divide(i, rng, counts);
-            continue;
-        }
-        u -= r.birth;
-        if (u < r.death) {
-            // Natural death (trait-dependent) or stress (the same for every active cell).
-            int i;
-            if (death_uniform_) {
-                // u uniform on [0, (d + stress) Na): the cell of rank floor(u / (d + stress)),
-                // capped against rounding at the top end.
-                auto rank = static_cast<std::uint64_t>(u * inv_death_cell);
-                const auto na = static_cast<std::uint64_t>(active_total_);
-                if (rank >= na) rank = na - 1;
-                i = pick_cell(active_rows_.data(), A_, rank);
-            } else if (u < death_sum_) {
-                i = pick_by_rate(death_rows_.data(), rates_.death.data(), u);
-            } else {
-                i = pick_cell(active_rows_.data(), A_, rng.below(static_cast<std::uint64_t>(active_total_)));
-            }
-            if (i >= 0) {
-                add_active(i, -1);
-                ++counts.deaths;
-            }
-            continue;
-        }
-        u -= r.death;
-        if (u < r.competition) {
-            int i;
-            if (competition_uniform_) {
-                // Every active cell meets competition at the same rate: a uniform cell (a fresh
-                // integer draw, cheaper than dividing u by the per-cell rate).
-                i = pick_cell(active_rows_.data(), A_, rng.below(static_cast<std::uint64_t>(active_total_)));
-            } else {
-                i = pick_by_rate(competition_rows_.data(), rates_.competition.data(),
-                                 u * (competition_sum_ / r.competition));
-            }
-            if (i < 0) continue;
-            add_active(i, -1);
-            // The same decision as rng.uniform() < q(x) (threshold53).
-            if (q_threshold_[i] > 0 && (rng() >> 11) < q_threshold_[i]) {
-                add_dormant(i, +1);
-                ++counts.dormancies;
-            } else {
-                ++counts.competition_deaths;
-            }
-            continue;
-        }
-        u -= r.competition;
-        if (u < r.conjugation && transfer_pairs_ > 0) {
-            conjugate(rng);
-            ++counts.conjugations;
-            continue;
-        }
-        if (dormant_total_ > 0) {
-            const int i = pick_cell(dormant_rows_.data(), D_, rng.below(static_cast<std::uint64_t>(dormant_total_)));
-            add_dormant(i, -1);
-            if (rng.uniform() < dormant_death_share_) {
-                ++counts.dormant_deaths;
-            } else {
-                add_active(i, +1);
-                ++counts.resuscitations;
-            }
-        }
+        execute(rng.uniform() * r.total, r, rng, counts);
     }
     return events;
 }
+
+void ExactPatch::fire(Rng& rng, EventCounts& counts) {
+    const ChannelRates r = channel_rates();
+    if (r.total > 0) execute(rng.uniform() * r.total, r, rng, counts);
+}
+
+int ExactPatch::active_cell(std::uint64_t rank) const { return pick_cell(active_rows_.data(), A_, rank); }
+int ExactPatch::dormant_cell(std::uint64_t rank) const { return pick_cell(dormant_rows_.data(), D_, rank); }
 
 }  // namespace tessera

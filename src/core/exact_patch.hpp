@@ -38,20 +38,29 @@ public:
     std::uint64_t advance(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where,
                           double duration, Rng& rng, EventCounts& counts);
 
-    // The total event rate of the loaded state (for tests and the validate mode).
-    double total_rate() const;
-
-private:
-    void load(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where);
-    void recompute_sums();
+    // Event by event, for the exact spatial engine, which keeps one ExactPatch per patch:
+    // attach to a patch's counts (rebuilding every kept sum), read its total local rate,
+    // fire one local event chosen with the right probabilities, and change counts from
+    // outside (migration) with the kept sums following.
+    void attach(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where);
+    double total_rate() const;  // of the attached state; also for tests and the validate mode
+    void fire(Rng& rng, EventCounts& counts);
     void add_active(int trait, std::int64_t delta);
     void add_dormant(int trait, std::int64_t delta);
+    std::int64_t active_total() const { return active_total_; }
+    std::int64_t dormant_total() const { return dormant_total_; }
+    int active_cell(std::uint64_t rank) const;   // trait of the active cell of this rank
+    int dormant_cell(std::uint64_t rank) const;  // trait of the dormant cell of this rank
+
+private:
+    void recompute_sums();
 
     // The propensity of each channel in the loaded state.
     struct ChannelRates {
         double birth = 0, death = 0, competition = 0, conjugation = 0, dormant = 0, total = 0;
     };
     ChannelRates channel_rates() const;
+    void execute(double u, const ChannelRates& r, Rng& rng, EventCounts& counts);
 
     int pick_by_rate(const double* row_sums, const double* rate, double u) const;
     int pick_cell(const std::int64_t* rows, const std::int64_t* counts, std::uint64_t r) const;
@@ -81,6 +90,7 @@ private:
     double dormant_rate_ = 0.0;   // kappa + sigma * resuscitation factor
     double dormant_death_share_ = 0.0;
     double death_per_cell_ = 0.0;     // d + stress, when d is trait-independent
+    double inv_death_cell_ = 0.0;     // 1 / death_per_cell_ (0 when that is 0)
     double competition_scale_ = 0.0;  // (C when trait-independent, else 1) / K_p
     double transfer_density_ = 0.0;   // tau / K_p
     bool frequency_ = true;           // transfer_form == frequency
