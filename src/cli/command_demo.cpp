@@ -13,9 +13,9 @@ namespace {
 
 // The bundled scenarios: next to the source tree when run from a build directory.
 fs::path demo_scenario() {
-    const fs::path built_in = fs::path(TESSERA_MAPS_DIR) / "demo" / "scenario.toml";
+    const fs::path built_in = fs::path(TESSERA_MAPS_DIR) / "tube-wall" / "scenario.toml";
     if (fs::exists(built_in)) return built_in;
-    return fs::path("maps") / "demo" / "scenario.toml";
+    return fs::path("maps") / "tube-wall" / "scenario.toml";
 }
 
 }  // namespace
@@ -36,10 +36,19 @@ int demo_command(const DemoOptions& o) {
     }
     const int code = run_session(scenario, o.out, {1, o.quiet, true});
     if (code == 0 && !o.quiet) {
+        const std::string d = o.out + "/";
         std::cout << "\nWhat to look at:\n"
-                  << "  " << o.out << "/series.csv              per-trait totals over time (t and t/lnK)\n"
-                  << "  " << o.out << "/scenario.resolved.toml  every setting used; rerun with\n"
-                  << "      tessera run " << o.out << "/scenario.resolved.toml --out my-run\n";
+                  << "  " << d << "frames/               one picture every 0.2 t/lnK: the dominant trait per patch\n"
+                  << "  " << d << "series.csv            per-trait totals over time (t and t/lnK)\n"
+                  << "  " << d << "habitat_series.csv    the same per habitat (biofilm, poor, treated)\n"
+                  << "  " << d << "fields.h5             per-patch counts at every frame (HDF5)\n"
+                  << "  " << d << "scenario.resolved.toml every setting used\n"
+                  << "\nWatch it live (needs a display):\n"
+                  << "  tessera view " << file.string() << "\n"
+                  << "Draw other views from the saved fields, e.g. the dormant fraction:\n"
+                  << "  tessera render " << o.out << " --out " << d << "dormant --view dormant\n"
+                  << "\nAn invented scenario for research and teaching, not guidance for clinical or\n"
+                  << "environmental decisions.\n";
     }
     return code;
 }
