@@ -124,6 +124,8 @@ private:
     std::vector<double> level_rate_;            // non-critical whole-copy rate into level l
     std::vector<Channel> channels_;
     std::vector<double> drift_, variance_;      // mu_k and sigma_k^2 of CGP 2006
+    std::vector<std::uint8_t> reactant_;        // species k is a reactant of a non-critical channel
+    std::vector<double> eps_over_g_;            // eps / g_k per species
     double a0_ = 0.0, critical_rate_ = 0.0;
     bool any_noncritical_ = false;
     LeapStats stats_;

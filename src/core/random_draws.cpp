@@ -27,9 +27,13 @@ double log_poisson_pmf(double k, double mean) {
 }
 
 std::int64_t poisson_inversion(Rng& rng, double mean) {
+    const double u = rng.uniform();
+    // k = 0 exactly when u <= exp(-mean); since exp(-mean) >= 1 - mean, u < 1 - mean decides
+    // it without the exponential. The leap engine draws many channels of mean well below 1
+    // (rare traits' deaths, mutant births over a short leap), where this is nearly always so.
+    if (u < 1.0 - mean) return 0;
     double p = std::exp(-mean);
     double F = p;
-    const double u = rng.uniform();
     std::int64_t k = 0;
     // The search ends by k ~ mean + 40 sqrt(mean) at the latest (the mass beyond is far below
     // the 2^-53 resolution of u); the cap only guards against rounding in F.
@@ -47,8 +51,9 @@ std::int64_t poisson_ptrs(Rng& rng, double mean) {
     const double slam = std::sqrt(mean);
     const double b = 0.931 + 2.53 * slam;
     const double a = -0.059 + 0.02483 * b;
-    const double log_invalpha = std::log(1.1239 + 1.1328 / (b - 3.4));
     const double vr = 0.9277 - 3.6224 / (b - 2);
+    // log(1/alpha) is needed only past the squeeze (about 1 draw in 7): computed then, once.
+    double log_invalpha = 0.0;
     for (;;) {
         const double U = rng.uniform() - 0.5;
         const double V = rng.uniform();
@@ -56,6 +61,7 @@ std::int64_t poisson_ptrs(Rng& rng, double mean) {
         const double k = std::floor((2 * a / us + b) * U + mean + 0.43);
         if (us >= 0.07 && V <= vr) return static_cast<std::int64_t>(k);
         if (k < 0 || (us < 0.013 && V > us)) continue;
+        if (log_invalpha == 0.0) log_invalpha = std::log(1.1239 + 1.1328 / (b - 3.4));
         if (std::log(V) + log_invalpha - std::log(a / (us * us) + b) <= log_poisson_pmf(k, mean)) {
             return static_cast<std::int64_t>(k);
         }

@@ -17,6 +17,7 @@
 #include <tbb/global_control.h>
 
 #include "bench_case.hpp"
+#include "leap_lattice_case.hpp"
 #include "core/engine.hpp"
 #include "core/leap_patch.hpp"
 
@@ -65,14 +66,8 @@ void exact_one_patch(benchmark::State& state, double K) {
 
 void lattice_auto(benchmark::State& state, int side, double K) {
     tbb::global_control threads(tbb::global_control::max_allowed_parallelism, 2);
-    Scenario s = Case::make_scenario(K, 3);
-    s.width = s.height = side;
-    s.habitats = {Habitat{}};
-    s.habitat_of_patch.assign(static_cast<std::size_t>(side) * side, 0);
-    s.inocula.front().where = Inoculum::Where::all;
-    s.time_unit = TimeUnit::plain;
-    Engine engine(s);
-    engine.advance_to(2.0);
+    Engine engine(tessera::bench::lattice_scenario(side, K));
+    engine.advance_to(tessera::bench::lattice_burn_in);
     double simulated = 0;
     for (auto _ : state) {
         engine.advance_to(engine.time() + 0.1);
