@@ -2,7 +2,8 @@
 //
 // Source: D. G. Kendall (1948), "On the generalized 'birth-and-death' process", Ann. Math.
 // Statist. 19:1-15; N. T. J. Bailey (1964), The Elements of Stochastic Processes, ch. 8
-// (section 8.6). With birth rate b, death rate d, r = b - d, E = e^{rt}, n0 cells at t = 0:
+// (section 8.6; section and equation numbers from memory). With birth rate b, death rate
+// d, r = b - d, E = e^{rt}, n0 cells at t = 0:
 //
 //   mean             n0 E
 //   variance         n0 (b + d)/(b - d) E (E - 1)

@@ -3,10 +3,12 @@
 // Source: the chemical master equation, dp/dt = p Q, of a continuous-time Markov jump
 // process (N. G. van Kampen, Stochastic Processes in Physics and Chemistry, North-Holland,
 // ch. V "The master equation"), solved as p(t) = p(0) exp(Q t) with Eigen's
-// unsupported MatrixFunctions (scaling and squaring Pade, Higham 2005) on a truncated
-// state space (the finite state projection of Munsky & Khammash 2006, J. Chem. Phys.
-// 124:044104: transitions out of the truncation are kept as loss, so 1 - sum p(t) is
-// exactly the probability of having left it, and the test asserts it is negligible).
+// unsupported MatrixFunctions (scaling and squaring with Pade approximants, Higham 2005,
+// SIAM J. Matrix Anal. Appl. 26:1179) on a truncated state space (the finite state
+// projection of Munsky & Khammash 2006, J. Chem. Phys. 124:044104: transitions out of the
+// truncation are kept as loss, so 1 - sum p(t) is exactly the probability of having left
+// it, and the test asserts it is negligible). Chapter numbers and the two citations in
+// parentheses are from memory.
 //
 // The generator Q is written here from model.md section 2 alone, independently of
 // src/core: every event, its rate and its effect on the counts. The engine's end states of
@@ -16,19 +18,31 @@
 // that the system uses gives chi-squared statistics in the hundreds or thousands (the
 // factor-2 breaks of the report were all caught by margins of that size).
 //
-// Systems (all one patch, small K so that the state space stays a few hundred states):
+// Systems (all one patch, small K so that the state space stays below 1000 states):
 //  (a) logistic growth with dormancy, one trait with x > 0 (q = 0.5), dormant death and
 //      resuscitation; once with competition by active cells only and once counting
 //      dormant cells, with habitat stress and a resuscitation factor;
 //  (b) two traits (y = 0, y = max) with conjugation, frequency and density forms, and
 //      transfer_copies = transfer_only on a 2 x 2 grid;
 //  (c) two traits with mutation, mu = K^-alpha = 0.2, backward probability 0.3.
+// Per-trait overrides of death, competition and q appear in (a) and (b), so that both the
+// engine's trait-independent and trait-dependent paths are covered.
+//
+// A last case checks the mutation kernel on a 2 x 2 grid, where the master equation would
+// need thousands of states: only the parent trait divides (the others have birth 0, and
+// nothing dies), so each division is an independent draw of where the offspring lands,
+// with the probabilities model.md section 2 gives (mu (1 - backward) forward, mu backward
+// backward, each split 1/2 between two targets, no move where there is no target). The
+// count of mutants M over B divisions has E[M] = p B exactly (optional stopping: M - p B
+// is a martingale) and variance p (1 - p) E[B]; given M, the split between the two targets
+// is exactly Binomial(M, 1/2). Tolerance: z_tolerance (5) standard errors.
 #include <catch2/catch.hpp>
 
 #include <Eigen/Dense>
 #include <unsupported/Eigen/MatrixFunctions>
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <functional>
 #include <map>
@@ -269,8 +283,15 @@ TEST_CASE("V2a logistic growth with dormancy matches the master equation", "[val
     SECTION("competition by active cells") {
         check_master_equation(s, PatchConditions{}, {0, 2, 0, 0}, 1.5, 36, test_seed(201));
     }
-    SECTION("competition counts dormant cells; habitat stress and resuscitation factor") {
+    SECTION("competition counts dormant cells; stress, resuscitation factor, overrides") {
         s.rates.competition_counts_dormant = true;
+        // Per-trait rates (so the engine takes its trait-dependent paths): q directly.
+        RateOverride o;
+        o.dormancy = 1.0;
+        o.death = 0.7;
+        o.competition = 1.3;
+        o.dormancy_probability = 0.6;
+        s.rates.overrides = {o};
         PatchConditions where;
         where.stress = 0.3;
         where.resuscitation = 0.5;
@@ -290,8 +311,13 @@ TEST_CASE("V2b conjugation between two traits matches the master equation", "[va
     s.rates.competition = 1.0;
     s.rates.transfer = 1.5;
     // State (A(y=0), A(y=1), D(y=0), D(y=1)).
-    SECTION("frequency form, whole trait copied") {
+    SECTION("frequency form, whole trait copied; per-trait death and competition") {
         s.rates.transfer_form = TransferForm::frequency;
+        RateOverride o;
+        o.transfer = 1.0;
+        o.death = 0.8;
+        o.competition = 1.4;
+        s.rates.overrides = {o};
         check_master_equation(s, PatchConditions{}, {3, 1, 0, 0}, 1.5, 30, test_seed(211));
     }
     SECTION("density form, whole trait copied") {
@@ -321,4 +347,66 @@ TEST_CASE("V2c mutation between two traits matches the master equation", "[valid
     s.rates.mutation_exponent = std::log(5.0) / std::log(3.0);  // mu = 3^-alpha = 0.2
     s.rates.mutation_backward = 0.3;
     check_master_equation(s, PatchConditions{}, {3, 0, 0, 0}, 1.5, 30, test_seed(221));
+}
+
+TEST_CASE("V2c mutation kernel on a 2 x 2 grid: rates and the 1/2 split", "[validation][V2]") {
+    Scenario s = one_patch_scenario();
+    s.K = 4.0;
+    s.dormancy_axis = {1.0, 2};
+    s.transfer_axis = {1.0, 2};  // traits (0,0) (0,1) (1,0) (1,1)
+    s.rates.death = 0.0;
+    s.rates.competition = 0.0;
+    s.rates.mutation_exponent = 0.5;  // mu = 4^-0.5 = 0.5
+    s.rates.mutation_backward = 0.4;
+    const double mu = 0.5, back = 0.4;
+    struct Case {
+        const char* name;
+        int parent;
+        int targets[2];
+        double p_move;
+    };
+    // From (0,0): forward to (1,0) or (0,1); backward has no target. From (1,1): backward
+    // to (0,1) or (1,0); forward has no target (the far corner).
+    const Case cases[] = {{"forward from (0,0)", 0, {2, 1}, mu * (1 - back)},
+                          {"backward from (1,1)", 3, {1, 2}, mu * back}};
+    for (const Case& c : cases) {
+        INFO(c.name);
+        s.rates.overrides.clear();
+        for (int i = 0; i < 4; ++i) {
+            RateOverride o;
+            o.dormancy = i / 2;
+            o.transfer = i % 2;
+            o.birth = i == c.parent ? 1.0 : 0.0;
+            s.rates.overrides.push_back(o);
+        }
+        const TraitGrid grid(s.dormancy_axis, s.transfer_axis);
+        const RateTable rates(grid, s.rates, s.K);
+        REQUIRE(rates.mutation_probability == Approx(mu));
+        const std::uint32_t N = 2000;
+        std::vector<std::array<std::int64_t, 3>> seen(N);  // births, to target 0, to target 1
+        std::vector<std::uint8_t> books_ok(N, 0);
+        const std::uint64_t seed = test_seed(231 + static_cast<std::uint64_t>(c.parent));
+        for_replicates(N, [&](std::uint32_t rep) {
+            PatchRun run(grid, rates, s.K, PatchConditions{}, seed, rep);
+            run.active[static_cast<std::size_t>(c.parent)] = 10;
+            run.advance(1.0);
+            const auto t0 = run.active[static_cast<std::size_t>(c.targets[0])];
+            const auto t1 = run.active[static_cast<std::size_t>(c.targets[1])];
+            seen[rep] = {static_cast<std::int64_t>(run.counts.births), t0, t1};
+            books_ok[rep] = run.counts.mutations == static_cast<std::uint64_t>(t0 + t1) &&
+                            run.active_total() == 10 + static_cast<std::int64_t>(run.counts.births);
+        });
+        CHECK(std::count(books_ok.begin(), books_ok.end(), 0) == 0);
+        double B = 0, m0 = 0, m1 = 0;
+        for (const auto& v : seen) {
+            B += static_cast<double>(v[0]);
+            m0 += static_cast<double>(v[1]);
+            m1 += static_cast<double>(v[2]);
+        }
+        const double M = m0 + m1, p = c.p_move;
+        INFO(B << " divisions, " << M << " mutants (" << m0 << " and " << m1 << "), expected "
+               << p * B);
+        CHECK(std::fabs(M - p * B) <= z_tolerance * std::sqrt(p * (1 - p) * B));
+        CHECK(std::fabs(m0 - M / 2) <= z_tolerance * std::sqrt(M / 4));
+    }
 }

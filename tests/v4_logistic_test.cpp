@@ -2,16 +2,17 @@
 //
 // Source: P.-F. Verhulst (1838), "Notice sur la loi que la population suit dans son
 // accroissement", Corresp. Math. Phys. 10:113-121; the closed form as in any textbook
-// (e.g. J. D. Murray, Mathematical Biology I, 3rd ed., section 1.1). One trait, no
-// dormancy, no transfer, no mutation: the density n = N/K obeys dn/dt = r n - C n^2 with
-// r = b - d, so with carrying density n* = r/C,
+// (e.g. J. D. Murray, Mathematical Biology I, 3rd ed., section 1.1). Volume, pages and
+// section are from memory; the closed form is checked below against an RK4 solution.
+// One trait, no dormancy, no transfer, no mutation: the density n = N/K obeys
+// dn/dt = r n - C n^2 with r = b - d, so with carrying density n* = r/C,
 //
 //   N(t) = K n* n0 e^{rt} / (n* + n0 (e^{rt} - 1)).
 //
 // Tolerance. By the system-size expansion (van Kampen, Stochastic Processes in Physics and
 // Chemistry, ch. X; the linear noise approximation, a theorem for density-dependent jump
 // processes: Kurtz 1971, J. Appl. Probab. 8:344-356) N(t) is Gaussian around K n(t) with
-// variance V(t) that solves
+// variance V(t) that solves (citation details from memory)
 //
 //   dV/dt = 2 (r - 2 C n) V + K (b + d + C n) n,   V(0) = 0 (the inoculum is exact),
 //

@@ -1,11 +1,11 @@
 // V5 (validation.md): conjugation between two otherwise equal traits.
 //
 // Source: the SI epidemic model, R. M. Anderson & R. M. May (1991), Infectious Diseases of
-// Humans: Dynamics and Control, Oxford University Press, ch. 2 (a susceptible becomes
-// infected at rate beta S I / N; with no recovery the infected fraction is logistic). Here
-// recipients (y = 0) are the susceptibles and donors (y = max) the infected. In the
-// frequency form a recipient-donor pair conjugates at rate tau / Na (model.md section 2),
-// so the donor fraction f obeys df/dt = tau f (1 - f),
+// Humans: Dynamics and Control, Oxford University Press, ch. 2, chapter from memory (a
+// susceptible becomes infected at rate beta S I / N; with no recovery the infected
+// fraction is logistic). Here recipients (y = 0) are the susceptibles and donors
+// (y = max) the infected. In the frequency form a recipient-donor pair conjugates at rate
+// tau / Na (model.md section 2), so the donor fraction f obeys df/dt = tau f (1 - f),
 //
 //   f(t) = f0 e^{tau t} / (1 - f0 + f0 e^{tau t}).
 //

@@ -3,9 +3,10 @@
 // Source: K. B. Athreya & P. E. Ney (1972), Branching Processes, Springer, ch. I (the
 // extinction probability of a supercritical Galton-Watson process is the smallest root of
 // f(s) = s) and ch. III (the embedded chain of a linear birth-death process: a cell divides
-// with probability b / (b + mu), so extinction has probability mu / b). While the mutant is
-// rare the resident holds its equilibrium density n* = (b_r - d_r) / C, so each mutant cell
-// divides at rate b_m and dies at rate mu = d_m + C n*; the invasion probability is
+// with probability b / (b + mu), so extinction has probability mu / b; chapter numbers
+// from memory). While the mutant is rare the resident holds its equilibrium density
+// n* = (b_r - d_r) / C, so each mutant cell divides at rate b_m and dies at rate
+// mu = d_m + C n*; the invasion probability is
 //
 //   P(invade) = 1 - (d_m + C n*) / b_m.
 //
