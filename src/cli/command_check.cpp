@@ -8,21 +8,11 @@
 
 #include "cli/commands.hpp"
 #include "core/trait_grid.hpp"
-#include "io/scenario_loader.hpp"
+#include "cli/scenario_input.hpp"
 
 namespace tessera::cli {
 
 namespace {
-
-const char* method_name(Method m) {
-    switch (m) {
-        case Method::auto_select: return "auto";
-        case Method::exact: return "exact";
-        case Method::leap: return "leap";
-        case Method::exact_spatial: return "exact-spatial";
-    }
-    return "?";
-}
 
 std::string bytes_text(double bytes) {
     const char* units[] = {"B", "KiB", "MiB", "GiB", "TiB"};
@@ -42,13 +32,9 @@ constexpr double events_per_core_second = 2e7;
 }  // namespace
 
 int check_command(const CheckOptions& o) {
-    Scenario s;
-    try {
-        s = load_scenario(o.scenario, o.sets);
-    } catch (const ScenarioError& e) {
-        for (const Diagnostic& d : e.diagnostics()) std::cerr << d.to_string() << "\n";
-        return 2;
-    }
+    const auto loaded = load_or_report(o.scenario, o.sets);
+    if (!loaded) return 2;
+    Scenario s = *loaded;
     const TraitGrid traits(s.dormancy_axis, s.transfer_axis);
     const std::size_t patches = static_cast<std::size_t>(s.width) * s.height;
 
@@ -59,9 +45,7 @@ int check_command(const CheckOptions& o) {
     std::printf("  K            %g\n", s.K);
     std::printf("  lattice      %d x %d = %zu patches, %d-neighbourhood, %s boundary\n", s.width, s.height,
                 patches, s.neighbourhood,
-                s.boundary == Boundary::reflecting ? "reflecting"
-                : s.boundary == Boundary::periodic ? "periodic"
-                                                    : "absorbing");
+                name_of(s.boundary));
     std::vector<std::size_t> per_class(s.habitats.size(), 0);
     for (auto c : s.habitat_of_patch) ++per_class[c];
     std::printf("  habitats\n");
@@ -74,7 +58,7 @@ int check_command(const CheckOptions& o) {
     }
     const double until_plain = s.to_plain(s.until);
     std::printf("  run          until %g %s (plain time %g), method %s, sync %g, seed %llu\n", s.until,
-                s.time_unit == TimeUnit::logK ? "t/lnK" : "plain", until_plain, method_name(s.method), s.sync,
+                s.time_unit == TimeUnit::logK ? "t/lnK" : "plain", until_plain, name_of(s.method), s.sync,
                 static_cast<unsigned long long>(s.seed));
 
     // Rough cost: at the resident equilibrium every cell divides at about b_max and as many

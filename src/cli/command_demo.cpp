@@ -3,7 +3,7 @@
 
 #include "cli/commands.hpp"
 #include "cli/run_session.hpp"
-#include "io/scenario_loader.hpp"
+#include "cli/scenario_input.hpp"
 
 namespace fs = std::filesystem;
 
@@ -22,13 +22,9 @@ fs::path demo_scenario() {
 
 int demo_command(const DemoOptions& o) {
     const fs::path file = demo_scenario();
-    Scenario scenario;
-    try {
-        scenario = load_scenario(file.string());
-    } catch (const ScenarioError& e) {
-        for (const Diagnostic& d : e.diagnostics()) std::cerr << d.to_string() << "\n";
-        return 1;  // the bundled scenario is ours: a failure here is an internal error
-    }
+    const auto loaded = load_or_report(file.string());
+    if (!loaded) return 1;  // the bundled scenario is ours: a failure here is an internal error
+    Scenario scenario = *loaded;
     if (o.threads) scenario.threads = *o.threads;
     if (!o.quiet) {
         std::cout << "tessera demo: " << scenario.title << "\n"

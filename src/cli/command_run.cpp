@@ -3,18 +3,14 @@
 
 #include "cli/commands.hpp"
 #include "cli/run_session.hpp"
-#include "io/scenario_loader.hpp"
+#include "cli/scenario_input.hpp"
 
 namespace tessera::cli {
 
 int run_command(const RunOptions& o) {
-    Scenario scenario;
-    try {
-        scenario = load_scenario(o.scenario, o.sets);
-    } catch (const ScenarioError& e) {
-        for (const Diagnostic& d : e.diagnostics()) std::cerr << d.to_string() << "\n";
-        return 2;
-    }
+    const auto loaded = load_or_report(o.scenario, o.sets);
+    if (!loaded) return 2;
+    Scenario scenario = *loaded;
     if (o.seed) scenario.seed = *o.seed;
     if (o.threads) scenario.threads = *o.threads;
     const std::string out =

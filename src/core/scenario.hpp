@@ -139,4 +139,11 @@ struct Scenario {
     bool operator==(const Scenario&) const = default;
 };
 
+// The spelling of each choice in scenario files (interfaces.md), for messages and outputs.
+const char* name_of(TransferForm v);
+const char* name_of(TransferCopies v);
+const char* name_of(TimeUnit v);
+const char* name_of(Boundary v);
+const char* name_of(Method v);
+
 }  // namespace tessera

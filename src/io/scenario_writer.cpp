@@ -13,29 +13,6 @@ namespace tessera {
 
 namespace {
 
-const char* name_of(TransferForm v) { return v == TransferForm::frequency ? "frequency" : "density"; }
-const char* name_of(TransferCopies v) { return v == TransferCopies::whole ? "whole" : "transfer_only"; }
-const char* name_of(TimeUnit v) { return v == TimeUnit::logK ? "logK" : "plain"; }
-
-const char* name_of(Boundary v) {
-    switch (v) {
-        case Boundary::reflecting: return "reflecting";
-        case Boundary::periodic: return "periodic";
-        case Boundary::absorbing: return "absorbing";
-    }
-    return "reflecting";
-}
-
-const char* name_of(Method v) {
-    switch (v) {
-        case Method::auto_select: return "auto";
-        case Method::exact: return "exact";
-        case Method::leap: return "leap";
-        case Method::exact_spatial: return "exact-spatial";
-    }
-    return "auto";
-}
-
 std::string where_text(const Inoculum& in) {
     auto n = [](int v) { return std::to_string(v); };
     switch (in.where) {
@@ -171,6 +148,7 @@ std::string resolved_scenario_toml(const Scenario& s) {
     w.number("sync", s.sync);
     w.integer("seed", static_cast<long long>(s.seed));
     w.integer("threads", s.threads);
+    w.number("checkpoint_every", s.checkpoint_every);
 
     w.header("output");
     w.number("every", s.output_every);

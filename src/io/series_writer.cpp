@@ -64,6 +64,17 @@ void append_time_prefix(const Engine& engine, std::string& out) {
     out += ',';
 }
 
+// "dormancy,transfer,active,dormant" of trait i.
+void append_trait_counts(std::string& out, const TraitGrid& traits, int i, std::int64_t active, std::int64_t dormant) {
+    append_number(out, traits.dormancy(i));
+    out += ',';
+    append_number(out, traits.transfer(i));
+    out += ',';
+    out += std::to_string(active);
+    out += ',';
+    out += std::to_string(dormant);
+}
+
 }  // namespace
 
 void append_series_rows(const Engine& engine, std::string& out) {
@@ -74,13 +85,7 @@ void append_series_rows(const Engine& engine, std::string& out) {
     const double log_K = std::log(engine.scenario().K);
     for (int i = 0; i < T; ++i) {
         append_time_prefix(engine, out);
-        append_number(out, traits.dormancy(i));
-        out += ',';
-        append_number(out, traits.transfer(i));
-        out += ',';
-        out += std::to_string(active[i]);
-        out += ',';
-        out += std::to_string(dormant[i]);
+        append_trait_counts(out, traits, i, active[i], dormant[i]);
         out += ',';
         append_number(out, std::log1p(static_cast<double>(active[i] + dormant[i])) / log_K);
         out += '\n';
@@ -97,13 +102,7 @@ void append_habitat_series_rows(const Engine& engine, std::string& out) {
             append_time_prefix(engine, out);
             out += habitats[c].name;
             out += ',';
-            append_number(out, traits.dormancy(i));
-            out += ',';
-            append_number(out, traits.transfer(i));
-            out += ',';
-            out += std::to_string(active[i]);
-            out += ',';
-            out += std::to_string(dormant[i]);
+            append_trait_counts(out, traits, i, active[i], dormant[i]);
             out += '\n';
         }
     }
