@@ -28,7 +28,11 @@ public:
     const sf::Image& write(const FieldSnapshot& snapshot);
 
     std::uint64_t frames() const { return next_; }
+    // Resuming a run: the next frame written is frame_<next_frame>.
+    void resume_at(std::uint64_t next_frame) { next_ = next_frame; }
     const std::filesystem::path& directory() const { return dir_; }
+    // The view of the frames written from now on (the window's recording follows its V key).
+    void set_view(FieldView view) { view_ = view; }
 
 private:
     std::filesystem::path dir_;

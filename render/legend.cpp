@@ -75,12 +75,14 @@ void colour_bar(Pen& pen, Rgb8 (*ramp)(double), const std::string& lo, const std
 
 void trait_grid(Pen& pen, const FieldSnapshot& s, const TraitPalette& palette) {
     const TraitGrid& g = s.grid;
-    pen.line("columns: transfer ability", small_size, muted_text_colour);
-    pen.line("rows: dormancy ability", small_size, muted_text_colour);
+    // Say what each direction of colour means, in the words a newcomer would use.
+    pen.line("colour: the trait with most cells", small_size, muted_text_colour);
+    pen.line("\u2192 transfer ability: blue \u2192 yellow", small_size, muted_text_colour);
+    pen.line("\u2193 dormancy ability: cyan, lime \u2192 violet, pink", small_size, muted_text_colour);
     pen.y += 2;
     // Row labels take the width of the widest dormancy value.
     int label_w = 0;
-    for (int x = 0; x < g.x_levels(); ++x) label_w = std::max(label_w, pen.font.width(number(x * (g.x_levels() > 1 ? g.dormancy_max() / (g.x_levels() - 1) : 0.0)), small_size));
+    for (int x = 0; x < g.x_levels(); ++x) label_w = std::max(label_w, pen.font.width(number(g.dormancy(g.index(x, 0))), small_size));
     const int left = label_w + 6;
     const int side = std::min(legend_swatch, (pen.width - left - 8) / std::max(g.y_levels(), 1) - 2);
     const int step = side + 2;
@@ -96,18 +98,20 @@ void trait_grid(Pen& pen, const FieldSnapshot& s, const TraitPalette& palette) {
         pen.y += step;
     }
     pen.y += 8;
-    // How fullness shows: the middle trait at a few fill levels.
-    pen.line("brightness: how full the patch is", small_size, muted_text_colour);
-    pen.line("log(1+N) / log K_p, N = all cells", small_size, muted_text_colour);
+    // How fullness shows: one trait (the middle one, the least colourful, so the strip
+    // reads as plain brightness) at the fill levels of legend_fill_levels, drawn with the
+    // rasteriser's own fill_shade.
+    pen.line("brightness: how full the patch is,", small_size, muted_text_colour);
+    pen.line("log(1+N) / log K_p, N = all its cells", small_size, muted_text_colour);
     const Rgb8 c = palette.colour(g.x_levels() / 2, g.y_levels() / 2);
-    const int strip = 6, w = std::min(30, (pen.width - 8) / strip);
-    for (int i = 0; i < strip; ++i) {
-        const double fill = static_cast<double>(i) / (strip - 1);
-        pen.rect(i * w, 0, w, 16, from_sf(mix(to_sf(empty_colour), to_sf(c), fill_weight(fill))));
-    }
+    const int strip = static_cast<int>(std::size(legend_fill_levels));
+    const int w = std::min(36, (pen.width - 8) / strip);
+    for (int i = 0; i < strip; ++i) pen.rect(i * w, 0, w, 16, fill_shade(c, legend_fill_levels[i]));
     pen.y += 19;
+    const std::string mid = "\u221aK_p", hi = "K_p cells";
     pen.text("1 cell", small_size, muted_text_colour);
-    pen.text("full", small_size, muted_text_colour, strip * w - pen.font.width("full", small_size));
+    pen.text(mid, small_size, muted_text_colour, strip * w / 2 - pen.font.width(mid, small_size) / 2);
+    pen.text(hi, small_size, muted_text_colour, strip * w - pen.font.width(hi, small_size));
     pen.y += pen.font.line_height(small_size) + 6;
 }
 

@@ -1,7 +1,8 @@
 // Legends: what the colours of a view mean, drawn into the side panel of a frame or the
 // window. The dominant-trait legend is a small grid of swatches laid out like the trait
-// grid (rows: dormancy ability, columns: transfer ability), labelled with the levels, and a
-// strip showing how brightness encodes how full a patch is.
+// grid (rows: dormancy ability, columns: transfer ability), labelled with the levels and
+// with what each direction of colour means, and a strip showing how brightness encodes how
+// full a patch is (the same fill_shade as the lattice).
 #pragma once
 
 #include <SFML/Graphics/Image.hpp>
@@ -20,5 +21,9 @@ int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const
 
 // Swatch side in the trait grid legend, exposed for tests that look for the swatches.
 inline constexpr int legend_swatch = 22;
+
+// The fill levels (log(1 + N) / log K_p) of the dominant-trait legend's brightness strip,
+// left to right: 1 cell (about 0), sqrt(K_p) cells (0.5), K_p cells (1).
+inline constexpr double legend_fill_levels[] = {0.0, 0.25, 0.5, 0.75, 1.0};
 
 }  // namespace tessera

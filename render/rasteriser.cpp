@@ -54,6 +54,8 @@ double fill_level(const FieldSnapshot& s, std::size_t patch, std::int64_t total)
 
 double fill_weight(double fill) { return 0.2 + 0.8 * std::clamp(fill, 0.0, 1.0); }
 
+Rgb8 fill_shade(Rgb8 full, double fill) { return mix(empty_colour, full, fill_weight(fill)); }
+
 bool is_wall(const FieldSnapshot& s, std::size_t patch) { return s.conditions_of(patch).capacity <= 0.0; }
 
 Rgb8 patch_colour(const FieldSnapshot& s, std::size_t patch, FieldView view, const TraitPalette& palette) {
@@ -71,7 +73,7 @@ Rgb8 patch_colour(const FieldSnapshot& s, std::size_t patch, FieldView view, con
     if (p.total == 0) return empty_colour;
     switch (view) {
         case FieldView::dominant_trait:
-            return mix(empty_colour, palette.colour(p.dominant), fill_weight(fill_level(s, patch, p.total)));
+            return fill_shade(palette.colour(p.dominant), fill_level(s, patch, p.total));
         case FieldView::dormant_fraction:
             return dormant_ramp(static_cast<double>(p.dormant) / static_cast<double>(p.total));
         case FieldView::mean_transfer: {

@@ -31,6 +31,10 @@ double fill_level(const FieldSnapshot& s, std::size_t patch, std::int64_t total)
 // this weight: any occupied patch shows (0.2), a full one shows the pure colour (1).
 double fill_weight(double fill);
 
+// The colour of a patch of fill level `fill` whose dominant trait has colour `full`: the
+// one function behind both the lattice and the legend's "how full" strip, so they agree.
+Rgb8 fill_shade(Rgb8 full, double fill);
+
 bool is_wall(const FieldSnapshot& s, std::size_t patch);
 
 // The colour of one patch in one view (walls excluded: they are drawn as a pattern).

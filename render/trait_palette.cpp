@@ -1,35 +1,25 @@
 #include "render/trait_palette.hpp"
 
-#include <cmath>
-#include <numbers>
 #include <stdexcept>
 
 namespace tessera {
 
 namespace {
 
-constexpr double lightness_low = 30.0;    // x = 0
-constexpr double lightness_span = 46.0;   // x = max: L = 76
-constexpr double hue_start = 268.0;       // y = 0, degrees
-constexpr double hue_span = -140.0;       // y = max: 128 degrees, through cyan
-constexpr double hue_easing = 0.65;
-constexpr double chroma_low = 90.0;       // wished-for chroma at x = 0 ...
-constexpr double chroma_span = 20.0;      // ... and at x = max; the gamut usually caps it
+// The affine design (see the header): value = base + per_x * sx + per_y * sy.
+constexpr double L_base = 82.0, L_per_x = -19.0, L_per_y = 8.0;
+constexpr double a_base = -22.0, a_per_x = 67.0, a_per_y = -5.0, a_twist = -25.0;
+constexpr double b_base = -29.0, b_per_x = -38.0, b_per_y = 105.0;
 
-Lab lab_at(double L, double C, double hue_deg) {
-    const double h = hue_deg * std::numbers::pi / 180.0;
-    return {L, C * std::cos(h), C * std::sin(h)};
-}
-
-// The largest chroma up to `wanted` that stays inside the sRGB gamut (bisection).
-double fit_chroma(double L, double hue_deg, double wanted) {
-    if (in_gamut(linear_from_lab(lab_at(L, wanted, hue_deg)))) return wanted;
-    double lo = 0.0, hi = wanted;
+// Scales the chroma down (same L*, same hue) until the colour is inside the sRGB gamut.
+Lab fit_gamut(Lab c) {
+    if (in_gamut(linear_from_lab(c))) return c;
+    double lo = 0.0, hi = 1.0;
     for (int i = 0; i < 40; ++i) {
         const double mid = 0.5 * (lo + hi);
-        (in_gamut(linear_from_lab(lab_at(L, mid, hue_deg))) ? lo : hi) = mid;
+        (in_gamut(linear_from_lab({c.L, c.a * mid, c.b * mid})) ? lo : hi) = mid;
     }
-    return lo;
+    return {c.L, c.a * lo, c.b * lo};
 }
 
 // Position of a level on its axis; a single level sits in the middle of the range.
@@ -37,12 +27,13 @@ double position(int level, int levels) { return levels > 1 ? static_cast<double>
 
 }  // namespace
 
-Rgb8 TraitPalette::at(double sx, double sy) {
-    const double L = lightness_low + lightness_span * sx;
-    const double hue = hue_start + hue_span * std::pow(sy, hue_easing);
-    const double C = fit_chroma(L, hue, chroma_low + chroma_span * sx);
-    return to_rgb8(linear_from_lab(lab_at(L, C, hue)));
+Lab TraitPalette::design_lab(double sx, double sy) {
+    return {L_base + L_per_x * sx + L_per_y * sy,
+            a_base + a_per_x * sx + a_per_y * sy + a_twist * (sx - 0.5) * (sy - 0.5),
+            b_base + b_per_x * sx + b_per_y * sy};
 }
+
+Rgb8 TraitPalette::at(double sx, double sy) { return to_rgb8(linear_from_lab(fit_gamut(design_lab(sx, sy)))); }
 
 TraitPalette::TraitPalette(int x_levels, int y_levels) : x_levels_(x_levels), y_levels_(y_levels) {
     if (x_levels < 1 || y_levels < 1) throw std::invalid_argument("TraitPalette: each axis needs at least one level");

@@ -1,11 +1,14 @@
 // Exact pixel colours of a small known state, in the views that matter most.
 #include <catch2/catch.hpp>
 
+#include <algorithm>
 #include <cmath>
 
 #include "render/canvas.hpp"
 #include "render/colour_ramps.hpp"
+#include "render/legend.hpp"
 #include "render/rasteriser.hpp"
+#include "render/typeface.hpp"
 
 using namespace tessera;
 
@@ -41,11 +44,20 @@ TEST_CASE("dominant-trait view: empty, full, sparse and wall patches") {
     const sf::Image image = rasterise(s, FieldView::dominant_trait, 4, palette);
     REQUIRE(image.getSize() == sf::Vector2u(16, 4));
     CHECK(pixel(image, 1, 1) == empty_colour);
-    // log(101)/log(100) > 1 is clamped: a full patch shows the pure trait colour.
-    CHECK(pixel(image, 5, 2) == palette.colour(5));
-    // One cell: mixed with the empty colour by 0.2 + 0.8 * log(2)/log(100).
+    CHECK(empty_colour == Rgb8{18, 20, 26});
+    // log(101)/log(100) > 1 is clamped: a full patch shows the pure trait colour. Trait 5
+    // is (x 1, y 2): sx = 0.5, sy = 1, design L* 90, a* 28.5, b* 57 (golden yellow), fitted
+    // into the gamut.
+    CHECK(palette.colour(5) == Rgb8{242, 193, 90});
+    CHECK(pixel(image, 5, 2) == Rgb8{242, 193, 90});
+    // One cell of trait 0 (sx = sy = 0, design L* 82, a* -28.25, b* -29: sky cyan, fitted to
+    // (79, 220, 255)), mixed with the empty colour by w = 0.2 + 0.8 * log(2)/log(100) =
+    // 0.3204: 18 + 61 w, 20 + 200 w, 26 + 229 w, rounded.
+    CHECK(palette.colour(0) == Rgb8{79, 220, 255});
     const double w = 0.2 + 0.8 * std::log(2.0) / std::log(100.0);
-    CHECK(pixel(image, 9, 1) == from_sf(mix(to_sf(empty_colour), to_sf(palette.colour(0)), w)));
+    CHECK(w == Approx(0.3204).margin(1e-4));
+    CHECK(pixel(image, 9, 1) == Rgb8{38, 84, 99});
+    CHECK(pixel(image, 9, 1) == fill_shade(palette.colour(0), std::log(2.0) / std::log(100.0)));
     // Wall: hatched along diagonals ((x + y) % 4 == 0 is a stripe).
     CHECK(pixel(image, 12, 0) == wall_stripe);
     CHECK(pixel(image, 13, 0) == wall_colour);
@@ -78,4 +90,42 @@ TEST_CASE("ties go to the lowest trait index; summaries add active and dormant")
     CHECK(p.total == 10);
     CHECK(p.dormant == 5);
     CHECK(p.dominant == 3);
+}
+
+TEST_CASE("the legend's brightness strip is the rasteriser's fill shading") {
+    // Patches of one trait holding 9 cells (fill log 10 / log 100 = 0.5) and 100 cells
+    // (fill 1) on the lattice, and the legend drawn next to them: the legend strip shows
+    // exactly the colours the lattice uses at those fill levels.
+    FieldSnapshot s = small_state();
+    std::fill(s.active.begin(), s.active.end(), 0);
+    std::fill(s.dormant.begin(), s.dormant.end(), 0);
+    const TraitPalette palette(s.grid);
+    const int middle = s.grid.index(1, 1);  // the legend's strip trait on a 3 x 3 grid
+    s.active[0 * 9 + middle] = 9;
+    s.active[1 * 9 + middle] = 100;
+    const sf::Image lattice = rasterise(s, FieldView::dominant_trait, 1, palette);
+    const Rgb8 half = pixel(lattice, 0, 0), full = pixel(lattice, 1, 0);
+    CHECK(half == fill_shade(palette.colour(middle), 0.5));
+    CHECK(full == palette.colour(middle));
+
+    Typeface font;
+    const int width = 230;
+    const int height = draw_legend(nullptr, font, 0, 0, width, s, FieldView::dominant_trait, palette);
+    sf::Image legend;
+    legend.create(width, static_cast<unsigned>(height), to_sf(panel_colour));
+    draw_legend(&legend, font, 0, 0, width, s, FieldView::dominant_trait, palette);
+    auto count = [&](Rgb8 c) {
+        int n = 0;
+        for (unsigned y = 0; y < legend.getSize().y; ++y) {
+            for (unsigned x = 0; x < legend.getSize().x; ++x) n += pixel(legend, x, y) == c;
+        }
+        return n;
+    };
+    // Each strip cell is a block of at least 16 x 16 pixels of one colour.
+    for (double level : legend_fill_levels) {
+        INFO("fill " << level);
+        CHECK(count(fill_shade(palette.colour(middle), level)) >= 16 * 16);
+    }
+    CHECK(count(half) >= 16 * 16);
+    CHECK(count(full) >= 2 * 16 * 16);  // the strip's right end and the grid's swatch
 }

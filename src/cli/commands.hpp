@@ -31,7 +31,14 @@ struct DemoOptions {
     bool quiet = false;
 };
 
+struct ResumeOptions {
+    std::string run_dir;
+    std::optional<int> threads;
+    bool quiet = false;
+};
+
 int run_command(const RunOptions& options);
+int resume_command(const ResumeOptions& options);
 int check_command(const CheckOptions& options);
 int demo_command(const DemoOptions& options);
 

@@ -32,6 +32,13 @@ int main(int argc, char** argv) {
     run_cmd->add_flag("--quiet", run.quiet, "No progress bar or messages");
     run_cmd->add_flag("--overwrite", run.overwrite, "Allow --out to name a directory that already holds a run");
 
+    ResumeOptions resume;
+    auto* resume_cmd = app.add_subcommand("resume", "Continue an interrupted run from its checkpoint (bit for bit)");
+    resume_cmd->add_option("run_dir", resume.run_dir, "Output directory of the interrupted 'tessera run'")->required();
+    resume_cmd->add_option("--threads", resume.threads, "Worker threads, 0 = all cores (results do not depend on it)")
+        ->check(CLI::NonNegativeNumber);
+    resume_cmd->add_flag("--quiet", resume.quiet, "No progress bar or messages");
+
     CheckOptions check;
     auto* check_cmd = app.add_subcommand("check", "Validate a scenario and its map; print a summary and a cost estimate");
     check_cmd->add_option("scenario", check.scenario, "Scenario file (TOML)")->required();
@@ -71,6 +78,7 @@ int main(int argc, char** argv) {
 
     try {
         if (*run_cmd) return run_command(run);
+        if (*resume_cmd) return resume_command(resume);
         if (*check_cmd) return check_command(check);
         if (*demo_cmd) return demo_command(demo);
         if (*render_cmd) return render_command(render);

@@ -5,6 +5,7 @@
 #include <tbb/parallel_for.h>
 
 #include <atomic>
+#include <chrono>
 #include <csignal>
 #include <cstdio>
 #include <filesystem>
@@ -12,8 +13,11 @@
 #include <iostream>
 #include <memory>
 #include <mutex>
+#include <regex>
 #include <system_error>
 
+#include "cli/checkpoint_keeper.hpp"
+#include "cli/csv_output.hpp"
 #include "cli/progress.hpp"
 #include "core/engine.hpp"
 #include "io/fields_writer.hpp"
@@ -27,121 +31,79 @@ namespace tessera::cli {
 
 namespace {
 
-std::atomic<bool> interrupted{false};
+using Stage = ReplicateCheckpoint::Stage;
+
+std::atomic<bool> interrupted{false};  // a signal came, or a replicate failed: stop after the step
 std::atomic<int> interrupt_signal{0};
 
 extern "C" void on_interrupt(int signal) {
-    if (interrupted.exchange(true)) std::_Exit(128 + signal);  // second Ctrl-C: leave at once
+    // The second Ctrl-C leaves at once. Files already written stay valid: checkpoint.bin is
+    // only ever replaced by rename, and outputs written after it are cut back on resume.
+    if (interrupted.exchange(true)) std::_Exit(128 + signal);
     interrupt_signal = signal;
 }
 
-// Appends `part` to `into` and removes it.
-bool append_and_remove(std::FILE* into, const fs::path& part) {
-    std::FILE* in = std::fopen(part.c_str(), "rb");
-    if (!in) return false;
-    char buf[1 << 16];
-    std::size_t n;
-    bool ok = true;
-    while ((n = std::fread(buf, 1, sizeof buf, in)) > 0) ok = ok && std::fwrite(buf, 1, n, into) == n;
-    std::fclose(in);
-    std::error_code ec;
-    fs::remove(part, ec);
-    return ok;
-}
-
 // One replicate's outputs, written as the run goes and flushed after every output time, so a
-// long run can be read while it runs and an interrupted one keeps what it had.
+// long run can be read while it runs. After an output time, once checkpoint_every seconds of
+// wall time have passed since the last one, it hands a checkpoint section to the keeper.
 class ReplicateOutputs : public Observer {
 public:
-    ReplicateOutputs(std::FILE* series, std::FILE* habitat_series, std::unique_ptr<FieldsWriter> fields,
-                     Progress& progress, int part, std::unique_ptr<FrameRecorder> frames = nullptr)
-        : series_(series), habitat_series_(habitat_series), fields_(std::move(fields)), progress_(progress), part_(part),
-          frames_(std::move(frames)) {}
+    ReplicateOutputs(int replicate, CsvOutput& series, CsvOutput& habitat_series, std::unique_ptr<FieldsWriter> fields,
+                     std::unique_ptr<FrameRecorder> frames, Progress& progress, CheckpointKeeper& keeper,
+                     double checkpoint_every)
+        : r_(replicate), series_(series), habitat_series_(habitat_series), fields_(std::move(fields)),
+          frames_(std::move(frames)), progress_(progress), keeper_(keeper), every_(checkpoint_every),
+          last_(std::chrono::steady_clock::now()) {}
 
     void observe(const Engine& engine, unsigned kinds) override {
         if (kinds & series_output) {
             buffer_.clear();
             append_series_rows(engine, buffer_);
-            write(series_);
+            series_.write(r_, buffer_);
             buffer_.clear();
             append_habitat_series_rows(engine, buffer_);
-            write(habitat_series_);
+            habitat_series_.write(r_, buffer_);
         }
         if ((kinds & fields_output) && fields_) fields_->append(engine);
         if ((kinds & frames_output) && frames_) frames_->observe(engine, kinds);
-        progress_.report(part_, engine.time() / engine.until());
+        progress_.report(r_, engine.time() / engine.until());
+        const auto now = std::chrono::steady_clock::now();
+        if (every_ > 0 && std::chrono::duration<double>(now - last_).count() >= every_) checkpoint(engine, Stage::running);
+    }
+
+    // Makes every output durable, then records the state and the output positions.
+    void checkpoint(const Engine& engine, Stage stage) {
+        ReplicateCheckpoint c;
+        c.replicate = static_cast<std::uint32_t>(r_);
+        c.stage = stage;
+        c.state = engine.state();
+        c.outputs.series_bytes = series_.sync(r_);
+        c.outputs.habitat_series_bytes = habitat_series_.sync(r_);
+        if (fields_) {
+            fields_->sync();
+            c.outputs.snapshots = fields_->snapshots();
+        }
+        if (frames_) c.outputs.frames = frames_->frames();
+        keeper_.update(r_, encode_replicate(c));
+        last_ = std::chrono::steady_clock::now();
     }
 
 private:
-    void write(std::FILE* file) {
-        std::fwrite(buffer_.data(), 1, buffer_.size(), file);
-        std::fflush(file);
-    }
-    std::FILE* series_;
-    std::FILE* habitat_series_;
+    int r_;
+    CsvOutput& series_;
+    CsvOutput& habitat_series_;
     std::unique_ptr<FieldsWriter> fields_;
-    Progress& progress_;
-    int part_;
     std::unique_ptr<FrameRecorder> frames_;  // replicate 0 only, when output.frames_every > 0
+    Progress& progress_;
+    CheckpointKeeper& keeper_;
+    double every_;
+    std::chrono::steady_clock::time_point last_;
     std::string buffer_;
 };
 
-// A CSV output: with one replicate it streams straight into its file; with several, each
-// replicate streams into a part file of its own, joined in replicate order at the end, so the
-// file never depends on scheduling.
-class CsvOutput {
-public:
-    CsvOutput(fs::path file, std::string header, int replicates)
-        : file_(std::move(file)), header_(std::move(header)) {
-        if (replicates == 1) {
-            parts_.push_back(file_);
-        } else {
-            for (int r = 0; r < replicates; ++r) {
-                parts_.push_back(file_.parent_path() / (file_.stem().string() + ".replicate" + std::to_string(r) + ".part"));
-            }
-        }
-    }
-    ~CsvOutput() { close(); }
-
-    bool open() {
-        for (const fs::path& p : parts_) {
-            std::FILE* h = std::fopen(p.c_str(), "wb");
-            if (!h) {
-                std::cerr << "error: cannot write " << p.string() << "\n";
-                return false;
-            }
-            handles_.push_back(h);
-        }
-        if (parts_.size() == 1) std::fputs(header_.c_str(), handles_[0]);
-        return true;
-    }
-    std::FILE* handle(int replicate) { return handles_[static_cast<std::size_t>(replicate)]; }
-
-    // Closes the files and joins the parts; false (with a message) when writing failed.
-    bool finish() {
-        close();
-        if (parts_.size() == 1) return true;
-        std::FILE* all = std::fopen(file_.c_str(), "wb");
-        bool ok = all != nullptr && std::fputs(header_.c_str(), all) >= 0;
-        for (const fs::path& part : parts_) ok = ok && append_and_remove(all, part);
-        if (all) ok = std::fclose(all) == 0 && ok;
-        if (!ok) std::cerr << "error: cannot write " << file_.string() << "\n";
-        return ok;
-    }
-
-private:
-    void close() {
-        for (std::FILE* h : handles_) std::fclose(h);
-        handles_.clear();
-    }
-    fs::path file_;
-    std::string header_;
-    std::vector<fs::path> parts_;
-    std::vector<std::FILE*> handles_;
-};
-
 bool holds_a_run(const fs::path& dir) {
-    return fs::exists(dir / "series.csv") || fs::exists(dir / "scenario.resolved.toml");
+    return fs::exists(dir / "series.csv") || fs::exists(dir / "scenario.resolved.toml") ||
+           fs::exists(dir / "checkpoint.bin");
 }
 
 // Creates the directory and proves it writable before any simulation starts.
@@ -153,7 +115,9 @@ bool prepare_directory(const fs::path& dir, bool overwrite) {
     }
     if (holds_a_run(dir) && !overwrite) {
         std::cerr << "error: --out " << dir.string()
-                  << ": already holds a run (series.csv); choose another directory or add --overwrite\n";
+                  << ": already holds a run (series.csv, checkpoint.bin); choose another directory, continue it with "
+                     "'tessera resume "
+                  << dir.string() << "', or add --overwrite\n";
         return false;
     }
     fs::create_directories(dir, ec);
@@ -162,13 +126,18 @@ bool prepare_directory(const fs::path& dir, bool overwrite) {
         return false;
     }
     const fs::path probe = dir / ".tessera-write-test";
-    std::ofstream test(probe);
-    if (!(test << "ok")) {
-        std::cerr << "error: --out " << dir.string() << ": the directory is not writable\n";
-        return false;
+    {
+        std::ofstream test(probe);
+        test << "ok";
+        test.flush();
+        if (!test) {
+            std::cerr << "error: --out " << dir.string() << ": the directory is not writable\n";
+            return false;
+        }
     }
-    test.close();
     fs::remove(probe, ec);
+    // An old run's checkpoint must never be resumed over this run's outputs.
+    fs::remove(dir / "checkpoint.bin", ec);
     return true;
 }
 
@@ -177,6 +146,156 @@ bool write_text(const fs::path& file, const std::string& text) {
     out << text;
     out.close();
     return static_cast<bool>(out);
+}
+
+// Removes frames/frame_NNNNNN.png numbered `from` or later (written after a checkpoint, or
+// by an earlier run in an overwritten directory).
+void remove_frames_from(const fs::path& dir, std::uint64_t from) {
+    std::error_code ec;
+    if (!fs::is_directory(dir, ec)) return;
+    static const std::regex name("frame_([0-9]{6,})\\.png");
+    std::vector<fs::path> doomed;
+    for (const auto& entry : fs::directory_iterator(dir, ec)) {
+        std::smatch m;
+        const std::string file = entry.path().filename().string();
+        if (std::regex_match(file, m, name) && std::stoull(m[1].str()) >= from) doomed.push_back(entry.path());
+    }
+    for (const fs::path& p : doomed) fs::remove(p, ec);
+}
+
+std::string fields_name(int r) { return r == 0 ? "fields.h5" : "fields.replicate" + std::to_string(r) + ".h5"; }
+
+// The whole run, fresh (`from` empty) or resumed from a checkpoint.
+int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* from, const SessionOptions& options) {
+    const int threads = scenario.threads > 0 ? scenario.threads : tbb::info::default_concurrency();
+    tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
+
+    const int R = from ? static_cast<int>(from->replicates.size()) : options.replicates;
+    CsvOutput series(dir / "series.csv", series_header(), R);
+    CsvOutput habitat_series(dir / "habitat_series.csv", habitat_series_header(), R);
+
+    std::vector<ReplicateCheckpoint> start(static_cast<std::size_t>(R));
+    std::vector<std::string> sections;
+    bool all_finished = true;
+    for (int r = 0; r < R; ++r) {
+        ReplicateCheckpoint& c = start[static_cast<std::size_t>(r)];
+        if (from) {
+            c = from->replicates[static_cast<std::size_t>(r)];
+        } else {
+            c.replicate = static_cast<std::uint32_t>(r);
+            c.outputs.series_bytes = series.initial_bytes();
+            c.outputs.habitat_series_bytes = habitat_series.initial_bytes();
+        }
+        all_finished = all_finished && c.stage == Stage::finished;
+        sections.push_back(encode_replicate(c));
+    }
+
+    if (from && all_finished) {
+        // Every replicate finished; only the join of the part files may be left to do.
+        if (R == 1 || !series.parts_exist() || !habitat_series.parts_exist()) {
+            if (!options.quiet) std::cout << dir.string() << ": the run is already finished; nothing to resume\n";
+            return 0;
+        }
+    }
+
+    std::vector<std::uint64_t> series_bytes, habitat_bytes;
+    for (const ReplicateCheckpoint& c : start) {
+        series_bytes.push_back(c.outputs.series_bytes);
+        habitat_bytes.push_back(c.outputs.habitat_series_bytes);
+    }
+    const bool opened = from ? series.reopen(series_bytes) && habitat_series.reopen(habitat_bytes)
+                             : series.open() && habitat_series.open();
+    if (!opened) return 2;
+
+    CheckpointKeeper keeper(dir / "checkpoint.bin", from ? from->scenario_text : resolved_scenario_toml(scenario),
+                            scenario.habitat_of_patch, std::move(sections));
+    try {
+        if (!from) keeper.write();  // from the start, a kill -9 can be resumed
+    } catch (const std::runtime_error& e) {
+        std::cerr << "error: " << e.what() << "\n";
+        return 2;
+    }
+
+    interrupted = false;
+    interrupt_signal = 0;
+    std::signal(SIGINT, on_interrupt);
+    std::signal(SIGTERM, on_interrupt);
+
+    Progress progress(R, !options.quiet && Progress::stderr_is_terminal());
+    std::mutex failure_mutex;
+    std::string failure;
+    std::vector<char> finished(static_cast<std::size_t>(R), 0);
+    std::vector<double> stopped_at(static_cast<std::size_t>(R), 0.0);  // in run.time_unit
+    tbb::parallel_for(0, R, [&](int r) {
+        const ReplicateCheckpoint& begin = start[static_cast<std::size_t>(r)];
+        if (begin.stage == Stage::finished) {
+            finished[static_cast<std::size_t>(r)] = 1;
+            progress.report(r, 1.0);
+            return;
+        }
+        try {
+            Engine engine(scenario, static_cast<std::uint32_t>(r));
+            const bool resumed = begin.stage == Stage::running;
+            if (resumed) {
+                try {
+                    engine.restore(begin.state);
+                } catch (const std::invalid_argument& e) {
+                    throw std::runtime_error((dir / "checkpoint.bin").string() + ": replicate " + std::to_string(r) +
+                                             ": " + e.what() + "; the file cannot be used");
+                }
+            }
+            std::unique_ptr<FieldsWriter> fields;
+            if (scenario.fields_every > 0) {
+                const std::string path = (dir / fields_name(r)).string();
+                fields = resumed ? FieldsWriter::rebuild(path, engine, begin.outputs.snapshots)
+                                 : std::make_unique<FieldsWriter>(path, engine);
+            }
+            std::unique_ptr<FrameRecorder> frames;
+            if (r == 0 && scenario.frames_every > 0) {
+                const std::uint64_t first = resumed ? begin.outputs.frames : 0;
+                remove_frames_from(dir / "frames", first);
+                frames = std::make_unique<FrameRecorder>(dir / "frames", scenario.frame_scale);
+                frames->resume_at(first);
+            }
+            ReplicateOutputs outputs(r, series, habitat_series, std::move(fields), std::move(frames), progress, keeper,
+                                     scenario.checkpoint_every);
+            engine.run(outputs, &interrupted, resumed);
+            const bool done = engine.time() >= engine.until();
+            outputs.checkpoint(engine, done ? Stage::finished : Stage::running);
+            finished[static_cast<std::size_t>(r)] = done ? 1 : 0;
+            stopped_at[static_cast<std::size_t>(r)] =
+                scenario.time_unit == TimeUnit::logK ? engine.time_logK() : engine.time();
+        } catch (const std::exception& e) {
+            std::lock_guard lock(failure_mutex);
+            if (failure.empty()) failure = e.what();
+            interrupted = true;  // stop the other replicates too
+        }
+    });
+    progress.finish();
+
+    bool complete = failure.empty();
+    for (char f : finished) complete = complete && f;
+    if (complete) {
+        std::signal(SIGINT, SIG_DFL);
+        std::signal(SIGTERM, SIG_DFL);
+        if (!series.finish() || !habitat_series.finish()) return 2;
+        if (!options.quiet) std::cout << "outputs written to " << dir.string() << "/\n";
+        return 0;
+    }
+    series.close();
+    habitat_series.close();
+    std::signal(SIGINT, SIG_DFL);
+    std::signal(SIGTERM, SIG_DFL);
+    if (!failure.empty()) {
+        std::cerr << "error: " << failure << "\n";
+        return 2;
+    }
+    const int signal = interrupt_signal.load();
+    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : "SIGINT") << ") at "
+              << (scenario.time_unit == TimeUnit::logK ? "t/lnK = " : "t = ") << stopped_at[0]
+              << (R > 1 ? " (replicate 0)" : "") << "; outputs and checkpoint are in " << dir.string()
+              << "/\ncontinue with: tessera resume " << dir.string() << "\n";
+    return 128 + (signal ? signal : SIGINT);
 }
 
 }  // namespace
@@ -188,59 +307,12 @@ int run_session(const Scenario& scenario, const std::string& out_dir, const Sess
         std::cerr << "error: cannot write " << (dir / "scenario.resolved.toml").string() << "\n";
         return 2;
     }
+    return simulate(scenario, dir, nullptr, options);
+}
 
-    const int threads = scenario.threads > 0 ? scenario.threads : tbb::info::default_concurrency();
-    tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
-
-    interrupted = false;
-    std::signal(SIGINT, on_interrupt);
-    std::signal(SIGTERM, on_interrupt);
-
-    const int R = options.replicates;
-    CsvOutput series(dir / "series.csv", series_header(), R);
-    CsvOutput habitat_series(dir / "habitat_series.csv", habitat_series_header(), R);
-    if (!series.open() || !habitat_series.open()) return 2;
-
-    // Fields of replicate 0 go to fields.h5, of replicate r > 0 to fields.replicate<r>.h5.
-    Progress progress(R, !options.quiet && Progress::stderr_is_terminal());
-    std::mutex failure_mutex;
-    std::string failure;
-    tbb::parallel_for(0, R, [&](int r) {
-        Engine engine(scenario, static_cast<std::uint32_t>(r));
-        std::unique_ptr<FieldsWriter> fields;
-        if (scenario.fields_every > 0) {
-            const std::string name = r == 0 ? "fields.h5" : "fields.replicate" + std::to_string(r) + ".h5";
-            try {
-                fields = std::make_unique<FieldsWriter>((dir / name).string(), engine);
-            } catch (const std::runtime_error& e) {
-                std::lock_guard lock(failure_mutex);
-                failure = e.what();
-                interrupted = true;  // stop the other replicates too
-                return;
-            }
-        }
-        std::unique_ptr<FrameRecorder> frames;
-        if (r == 0 && scenario.frames_every > 0) {
-            frames = std::make_unique<FrameRecorder>(dir / "frames", scenario.frame_scale);
-        }
-        ReplicateOutputs outputs(series.handle(r), habitat_series.handle(r), std::move(fields), progress, r,
-                                 std::move(frames));
-        engine.run(outputs, &interrupted);
-    });
-    progress.finish();
-    if (!series.finish() || !habitat_series.finish()) return 2;
-    std::signal(SIGINT, SIG_DFL);
-    std::signal(SIGTERM, SIG_DFL);
-    if (!failure.empty()) {
-        std::cerr << "error: " << failure << "\n";
-        return 2;
-    }
-    if (interrupted) {
-        std::cerr << "interrupted: the outputs up to the last step are in " << dir.string() << "\n";
-        return 128 + interrupt_signal.load();
-    }
-    if (!options.quiet) std::cout << "outputs written to " << dir.string() << "/\n";
-    return 0;
+int resume_session(const Scenario& scenario, const std::string& run_dir, const Checkpoint& checkpoint,
+                   const SessionOptions& options) {
+    return simulate(scenario, fs::path(run_dir), &checkpoint, options);
 }
 
 }  // namespace tessera::cli

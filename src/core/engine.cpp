@@ -7,6 +7,7 @@
 #include <cmath>
 #include <limits>
 #include <random>
+#include <stdexcept>
 
 #include "core/exact_patch.hpp"
 #include "core/exact_spatial.hpp"
@@ -102,7 +103,7 @@ void Engine::inoculate() {
     }
 }
 
-void Engine::run(Observer& observer, const std::atomic<bool>* stop) {
+void Engine::run(Observer& observer, const std::atomic<bool>* stop, bool resumed) {
     const double end = until();
     const double every[3] = {scenario_.to_plain(scenario_.output_every),
                              scenario_.to_plain(scenario_.fields_every),
@@ -110,7 +111,10 @@ void Engine::run(Observer& observer, const std::atomic<bool>* stop) {
     std::uint64_t next[3] = {0, 0, 0};  // index j of the next output time j * every
     for (int k = 0; k < 3; ++k) {
         if (every[k] > 0) next[k] = static_cast<std::uint64_t>(std::floor(time_ / every[k] + 1e-9));
+        // Resumed: skip the output times already reached (the checkpoint came after them).
+        while (resumed && every[k] > 0 && reached(time_, static_cast<double>(next[k]) * every[k])) ++next[k];
     }
+    if (resumed && reached(time_, end)) return;  // the final outputs are written too
     for (;;) {
         unsigned due = 0;
         for (int k = 0; k < 3; ++k) {
@@ -128,12 +132,15 @@ void Engine::run(Observer& observer, const std::atomic<bool>* stop) {
         for (int k = 0; k < 3; ++k) {
             if (every[k] > 0) target = std::min(target, static_cast<double>(next[k]) * every[k]);
         }
-        advance_to(target);
+        advance_to(target, stop);
+        // Stopped between output times: nothing is due now, so the outputs are complete.
+        if (stop && stop->load() && !reached(time_, target)) return;
     }
 }
 
-void Engine::advance_to(double t_end) {
+void Engine::advance_to(double t_end, const std::atomic<bool>* stop) {
     while (!reached(time_, t_end)) {
+        if (stop && stop->load()) return;
         double next = std::min({t_end, time_ + scenario_.sync, timeline_.next_change_after(time_)});
         if (reached(next, t_end)) next = t_end;
         step(next - time_);
@@ -266,6 +273,29 @@ void Engine::migration_phase(double dt) {
         migrants_ += s.sent_per_patch[p];
     }
 }
+
+// --- checkpoints --------------------------------------------------------------------------
+Engine::State Engine::state() const {
+    return {time_, step_, lattice_.all_active(), lattice_.all_dormant(), patch_counts_, lost_, migrants_,
+            class_conditions_};
+}
+
+void Engine::restore(const State& s) {
+    const std::size_t cells = lattice_.patches() * static_cast<std::size_t>(lattice_.traits());
+    if (s.active.size() != cells || s.dormant.size() != cells || s.patch_counts.size() != lattice_.patches() ||
+        s.class_conditions.size() != class_conditions_.size()) {
+        throw std::invalid_argument("the saved state does not fit this scenario's lattice, traits or habitats");
+    }
+    time_ = s.time;
+    step_ = s.step;
+    std::copy(s.active.begin(), s.active.end(), lattice_.active(0));
+    std::copy(s.dormant.begin(), s.dormant.end(), lattice_.dormant(0));
+    patch_counts_ = s.patch_counts;
+    lost_ = s.lost;
+    migrants_ = s.migrants;
+    class_conditions_ = s.class_conditions;
+}
+// ------------------------------------------------------------------------------------------
 
 EventCounts Engine::totals() const {
     EventCounts sum;

@@ -46,11 +46,15 @@ public:
     ~Engine();
 
     // Runs from the current time to run.until, handing the state to `observer` at t = 0 and
-    // at every output time. Stops early (after a whole step) when `stop` becomes true.
-    void run(Observer& observer, const std::atomic<bool>* stop = nullptr);
+    // at every output time. Stops early (after a whole step, possibly between output times)
+    // when `stop` becomes true; on return every output due at or before time() was handed out.
+    // `resumed`: the engine was restored from a checkpoint, so the outputs due at or before
+    // the current time were handed out by the run that wrote it and are not repeated.
+    void run(Observer& observer, const std::atomic<bool>* stop = nullptr, bool resumed = false);
 
-    // Advances to plain time `t_end` in steps of at most run.sync.
-    void advance_to(double t_end);
+    // Advances to plain time `t_end` in steps of at most run.sync; returns early, after a
+    // whole step, when `stop` becomes true.
+    void advance_to(double t_end, const std::atomic<bool>* stop = nullptr);
 
     const Scenario& scenario() const { return scenario_; }
     const TraitGrid& traits() const { return traits_; }
@@ -71,6 +75,23 @@ public:
     EventCounts totals() const;                     // summed over patches, in patch order
     std::uint64_t lost() const { return lost_; }    // through absorbing edges
     std::uint64_t migrants() const { return migrants_; }
+
+    // --- checkpoints (src/io/checkpoint.*) ---------------------------------------------
+    // Everything that carries over from one step to the next: with it and the scenario, a
+    // restored engine continues bit for bit (random streams depend only on the step number;
+    // the patch engines keep nothing between steps).
+    struct State {
+        double time = 0.0;  // plain
+        std::uint64_t step = 0;
+        std::vector<std::int64_t> active, dormant;  // [patch][trait]
+        std::vector<EventCounts> patch_counts;
+        std::uint64_t lost = 0, migrants = 0;
+        std::vector<PatchConditions> class_conditions;
+    };
+    State state() const;
+    // Throws std::invalid_argument (nothing changed) when the sizes do not fit this scenario.
+    void restore(const State& state);
+    // ------------------------------------------------------------------------------------
 
 private:
     void step(double dt);

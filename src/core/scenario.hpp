@@ -126,6 +126,9 @@ struct Scenario {
     double sync = 0.01;  // plain time, always (a numerical parameter, not an observation time)
     std::uint64_t seed = 1;
     int threads = 0;
+    // Wall-clock seconds between checkpoints (taken at the first output time after that
+    // long); 0: only at the end and on interruption. Never changes the results.
+    double checkpoint_every = 600.0;
 
     double output_every = 0.1;  // in time_unit
     double fields_every = 1.0;  // in time_unit, 0 = none

@@ -2,7 +2,11 @@
 
 #include <hdf5.h>
 
+#include <unistd.h>
+
 #include <algorithm>
+#include <cstdio>
+#include <memory>
 #include <cstring>
 #include <stdexcept>
 #include <vector>
@@ -24,6 +28,7 @@ hid_t make_extendible(hid_t file, const char* name, hid_t type, const std::vecto
     if (item.empty()) chunk[0] = 256;  // 1-D time axes: many snapshots per chunk
     hid_t space = H5Screate_simple(static_cast<int>(dims.size()), dims.data(), maxdims.data());
     hid_t props = H5Pcreate(H5P_DATASET_CREATE);
+    H5Pset_obj_track_times(props, 0);  // no clock in the file: equal runs give equal bytes
     H5Pset_chunk(props, static_cast<int>(chunk.size()), chunk.data());
     if (compress) {
         H5Pset_shuffle(props);
@@ -69,9 +74,12 @@ void write_string_attribute(hid_t where, const char* name, const std::string& va
 
 void write_dataset(hid_t file, const char* name, hid_t type, const std::vector<hsize_t>& dims, const void* data) {
     hid_t space = H5Screate_simple(static_cast<int>(dims.size()), dims.data(), nullptr);
-    hid_t set = H5Dcreate2(file, name, type, space, H5P_DEFAULT, H5P_DEFAULT, H5P_DEFAULT);
+    hid_t props = H5Pcreate(H5P_DATASET_CREATE);
+    H5Pset_obj_track_times(props, 0);
+    hid_t set = H5Dcreate2(file, name, type, space, H5P_DEFAULT, props, H5P_DEFAULT);
     H5Dwrite(set, type, H5S_ALL, H5S_ALL, H5P_DEFAULT, data);
     H5Dclose(set);
+    H5Pclose(props);
     H5Sclose(space);
 }
 
@@ -137,16 +145,106 @@ FieldsWriter::~FieldsWriter() {
 }
 
 void FieldsWriter::append(const Engine& engine) {
-    const double t = engine.time();
-    const double t_logK = engine.time_logK();
+    // Counts are never negative, so their int64 bits are their uint64 value.
+    append(engine.time(), engine.time_logK(), lattice_item(engine), engine.lattice().all_active().data(),
+           engine.lattice().all_dormant().data());
+}
+
+// The one sequence of HDF5 calls per snapshot, shared by a run and a rebuild so that both
+// give the same bytes.
+void FieldsWriter::append(double t, double t_logK, const std::vector<unsigned long long>& item, const void* active,
+                          const void* dormant) {
+    const std::vector<hsize_t> dims(item.begin(), item.end());
     append_item(t_, snapshots_, {}, H5T_NATIVE_DOUBLE, &t);
     append_item(t_logK_, snapshots_, {}, H5T_NATIVE_DOUBLE, &t_logK);
-    // Counts are never negative, so their int64 bits are their uint64 value.
-    const std::vector<hsize_t> item = lattice_item(engine);
-    append_item(active_, snapshots_, item, H5T_NATIVE_UINT64, engine.lattice().all_active().data());
-    append_item(dormant_, snapshots_, item, H5T_NATIVE_UINT64, engine.lattice().all_dormant().data());
+    append_item(active_, snapshots_, dims, H5T_NATIVE_UINT64, active);
+    append_item(dormant_, snapshots_, dims, H5T_NATIVE_UINT64, dormant);
     ++snapshots_;
     H5Fflush(file_, H5F_SCOPE_LOCAL);
+}
+
+namespace {
+
+// Reads snapshot `index` of a [snapshot][...] dataset into `out` (sized for one item).
+bool read_item(hid_t set, std::uint64_t index, const std::vector<hsize_t>& item, hid_t memtype, void* out) {
+    hid_t file_space = H5Dget_space(set);
+    const int rank = H5Sget_simple_extent_ndims(file_space);
+    std::vector<hsize_t> dims(static_cast<std::size_t>(std::max(rank, 1)));
+    H5Sget_simple_extent_dims(file_space, dims.data(), nullptr);
+    bool ok = rank == static_cast<int>(item.size()) + 1 && dims[0] > index;
+    for (std::size_t k = 0; ok && k < item.size(); ++k) ok = dims[k + 1] == item[k];
+    if (ok) {
+        std::vector<hsize_t> start{index}, count{1};
+        for (hsize_t d : item) {
+            start.push_back(0);
+            count.push_back(d);
+        }
+        H5Sselect_hyperslab(file_space, H5S_SELECT_SET, start.data(), nullptr, count.data(), nullptr);
+        hid_t mem_space = H5Screate_simple(static_cast<int>(count.size()), count.data(), nullptr);
+        ok = H5Dread(set, memtype, mem_space, file_space, H5P_DEFAULT, out) >= 0;
+        H5Sclose(mem_space);
+    }
+    H5Sclose(file_space);
+    return ok;
+}
+
+}  // namespace
+
+std::unique_ptr<FieldsWriter> FieldsWriter::rebuild(const std::string& path, const Engine& engine,
+                                                    std::uint64_t snapshots) {
+    H5Eset_auto2(H5E_DEFAULT, nullptr, nullptr);
+    const std::string fresh = path + ".rebuild";
+    auto writer = std::make_unique<FieldsWriter>(fresh, engine);
+    if (snapshots > 0) {
+        hid_t old = H5Fopen(path.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
+        if (old < 0) {
+            writer.reset();
+            std::remove(fresh.c_str());
+            throw std::runtime_error(path + ": cannot open it to resume (missing, or not a readable HDF5 file)");
+        }
+        const char* names[4] = {"t", "t_logK", "active", "dormant"};
+        hid_t sets[4];
+        for (int k = 0; k < 4; ++k) sets[k] = H5Dopen2(old, names[k], H5P_DEFAULT);
+        const std::vector<hsize_t> item = lattice_item(engine);
+        const std::vector<unsigned long long> item_ull(item.begin(), item.end());
+        std::vector<std::uint64_t> active(item[0] * item[1] * item[2]), dormant(active.size());
+        std::string problem;
+        for (std::uint64_t i = 0; i < snapshots && problem.empty(); ++i) {
+            double t = 0.0, t_logK = 0.0;
+            bool ok = sets[0] >= 0 && sets[1] >= 0 && sets[2] >= 0 && sets[3] >= 0;
+            ok = ok && read_item(sets[0], i, {}, H5T_NATIVE_DOUBLE, &t) &&
+                 read_item(sets[1], i, {}, H5T_NATIVE_DOUBLE, &t_logK) &&
+                 read_item(sets[2], i, item, H5T_NATIVE_UINT64, active.data()) &&
+                 read_item(sets[3], i, item, H5T_NATIVE_UINT64, dormant.data());
+            if (!ok) {
+                problem = path + ": cannot read snapshot " + std::to_string(i) + " of the " +
+                          std::to_string(snapshots) + " the checkpoint counts (the file is damaged or from another run)";
+                break;
+            }
+            writer->append(t, t_logK, item_ull, active.data(), dormant.data());
+        }
+        for (hid_t set : sets) {
+            if (set >= 0) H5Dclose(set);
+        }
+        H5Fclose(old);
+        if (!problem.empty()) {
+            writer.reset();
+            std::remove(fresh.c_str());
+            throw std::runtime_error(problem);
+        }
+    }
+    // HDF5 keeps writing through its open descriptor, which follows the rename.
+    if (std::rename(fresh.c_str(), path.c_str()) != 0) {
+        throw std::runtime_error(path + ": cannot replace it with the rebuilt file");
+    }
+    writer->path_ = path;
+    return writer;
+}
+
+void FieldsWriter::sync() {
+    H5Fflush(file_, H5F_SCOPE_LOCAL);
+    void* handle = nullptr;
+    if (H5Fget_vfd_handle(file_, H5P_DEFAULT, &handle) >= 0 && handle) ::fsync(*static_cast<int*>(handle));
 }
 
 }  // namespace tessera

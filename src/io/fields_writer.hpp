@@ -9,6 +9,8 @@
 #pragma once
 
 #include <cstdint>
+#include <memory>
+#include <vector>
 #include <string>
 
 #include "core/engine.hpp"
@@ -27,7 +29,20 @@ public:
     void append(const Engine& engine);  // one snapshot of the current state
     std::uint64_t snapshots() const { return snapshots_; }
 
+    // Resuming a run: rebuilds `path` from its own first `snapshots` snapshots into a fresh
+    // file made by the same sequence of HDF5 calls as the run that wrote them (so the bytes
+    // equal an uninterrupted run's), puts it in place of `path` and continues from there.
+    // Throws std::runtime_error naming the file when it cannot be read or holds fewer.
+    static std::unique_ptr<FieldsWriter> rebuild(const std::string& path, const Engine& engine,
+                                                 std::uint64_t snapshots);
+
+    // Flushes and fsyncs the file (before a checkpoint names its snapshot count).
+    void sync();
+
 private:
+    void append(double t, double t_logK, const std::vector<unsigned long long>& item, const void* active,
+                const void* dormant);
+
     std::string path_;
     std::int64_t file_ = -1;  // hid_t
     std::int64_t t_ = -1, t_logK_ = -1, active_ = -1, dormant_ = -1;

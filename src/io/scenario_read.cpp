@@ -28,7 +28,7 @@ const Keys habitat_keys = {"name", "symbol", "colour", "capacity", "stress", "re
 const Keys inoculum_keys = {"where", "trait", "active", "exponent", "dormant"};
 const Keys schedule_keys = {"habitat", "start", "end", "every", "capacity", "stress", "resuscitation",
                             "permeability"};
-const Keys run_keys = {"until", "time_unit", "method", "sync", "seed", "threads"};
+const Keys run_keys = {"until", "time_unit", "method", "sync", "seed", "threads", "checkpoint_every"};
 const Keys output_keys = {"every", "fields_every", "frames_every", "frame_scale"};
 
 constexpr double count_limit = 4611686018427387904.0;  // 2^62: counts stay far from uint64 overflow
@@ -259,6 +259,9 @@ void read_run(const toml::table* t, Scenario& s, Findings& f) {
                               "a finite number > 0 (plain time, whatever run.time_unit says)"});
     r.integer("seed", s.seed, 0, std::numeric_limits<std::int64_t>::max(), "a whole number >= 0");
     r.integer("threads", s.threads, 0, 65536, "a whole number >= 0 (0: all cores)");
+    r.number("checkpoint_every", s.checkpoint_every,
+             {0.0, std::numeric_limits<double>::infinity(), false, false,
+              "a finite number >= 0 (seconds of wall time; 0: checkpoints only at the end and on interruption)"});
 }
 
 void read_output(const toml::table* t, Scenario& s, Findings& f) {
