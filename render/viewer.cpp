@@ -36,7 +36,7 @@ const char* const help_lines[] = {
     "+ / -        faster / slower",
     "V            next view (trait, dormant, transfer, exponent, habitat, stress)",
     "Click        show a patch's counts per trait",
-    "R            start / stop recording frames",
+    "R            start / stop recording frames (on from the start with --record)",
     "P            screenshot (screenshot_NNN.png)",
     "N            restart with a new seed",
     "H or F1      this help",
@@ -107,7 +107,8 @@ private:
     std::uint64_t version_ = 0;
     std::optional<std::size_t> selected_;
     bool help_ = false;
-    std::unique_ptr<FrameRecorder> recorder_;
+    std::unique_ptr<FrameRecorder> recorder_;  // made when recording first starts
+    bool recording_ = false;
     int screenshots_ = 0;
     sf::Image canvas_;
     LatticePlace place_;
@@ -130,7 +131,11 @@ void Viewer::handle_key(sf::Keyboard::Key key) {
         case sf::Keyboard::Equal: worker_.set_speed(worker_.speed() * 2.0); break;
         case sf::Keyboard::Subtract:
         case sf::Keyboard::Hyphen: worker_.set_speed(worker_.speed() / 2.0); break;
-        case sf::Keyboard::V: view_ = next_view(view_); break;
+        case sf::Keyboard::V:
+            view_ = next_view(view_);
+            // A recording follows the window: later frames show the new view.
+            if (recorder_) recorder_->set_view(view_);
+            break;
         case sf::Keyboard::R: toggle_recording(); break;
         case sf::Keyboard::P: screenshot("screenshot_" + std::to_string(screenshots_++) + ".png"); break;
         case sf::Keyboard::N:
@@ -144,12 +149,18 @@ void Viewer::handle_key(sf::Keyboard::Key key) {
 }
 
 void Viewer::toggle_recording() {
-    if (recorder_) {
+    if (recording_) {
+        recording_ = false;
         message_ = "recorded " + std::to_string(recorder_->frames()) + " frames to " + recorder_->directory().string();
-        recorder_.reset();
         return;
     }
-    recorder_ = std::make_unique<FrameRecorder>(options_.record_dir, std::max(scenario_.frame_scale, place_.scale), view_);
+    // One recorder for the whole session, so that stopping and starting again numbers on
+    // instead of overwriting the first frames.
+    if (!recorder_) {
+        recorder_ = std::make_unique<FrameRecorder>(options_.record_dir, std::max(scenario_.frame_scale, place_.scale), view_);
+    }
+    recorder_->set_view(view_);
+    recording_ = true;
     recorder_->write(snapshot_);
     message_ = "recording to " + options_.record_dir;
 }
@@ -181,7 +192,7 @@ void Viewer::draw_panel(int x, int W, int H) {
              "   seed " + std::to_string(worker_.seed()), 11, muted_text_colour);
     line(format("speed %.3g time units / s", worker_.speed()) + (worker_.paused() ? "   PAUSED" : ""), 11,
          worker_.paused() ? Rgb8{255, 200, 90} : muted_text_colour);
-    if (recorder_) line("REC " + std::to_string(recorder_->frames()) + " frames", 11, Rgb8{255, 110, 100});
+    if (recording_) line("REC " + std::to_string(recorder_->frames()) + " frames (R stops)", 11, Rgb8{255, 110, 100});
     if (!message_.empty()) line(message_, 11, muted_text_colour);
     line("H: keys and help", 11, muted_text_colour);
     y += 6;
@@ -251,6 +262,7 @@ int Viewer::run() {
     std::size_t next_step = 0;
     int wait_frames = 0;
     int drawn = 0;
+    bool start_recording = options_.record_at_start;
     version_ = worker_.fetch(0, snapshot_, history_);
     while (window.isOpen()) {
         sf::Event event;
@@ -289,10 +301,15 @@ int Viewer::run() {
         }
 
         const std::uint64_t v = worker_.fetch(version_, snapshot_, history_);
-        if (v != version_ && recorder_) recorder_->write(snapshot_);
+        if (v != version_ && recording_) recorder_->write(snapshot_);
         version_ = v;
         const sf::Vector2u size = window.getSize();
         compose(size.x, size.y);
+        // --record: start once the lattice has been placed, so the frames get the window's scale.
+        if (start_recording) {
+            start_recording = false;
+            if (!recording_) toggle_recording();
+        }
         if (texture.getSize() != size) texture.create(size.x, size.y);
         texture.update(canvas_);
         window.clear();

@@ -13,7 +13,8 @@
 namespace tessera {
 
 struct ViewerOptions {
-    std::string record_dir = "tessera-recording";  // where R records frames
+    std::string record_dir = "tessera-recording";  // where recorded frames go
+    bool record_at_start = false;                  // record from the first frame (R still toggles)
     std::string script;                            // see render/viewer_script.hpp
     int frames = 0;                                // close after this many frames; 0 = never
     FieldView view = FieldView::dominant_trait;

@@ -69,3 +69,36 @@ TEST_CASE("the viewer runs scripted frames and keys and shows lattice and legend
     CHECK(with_help.getPixel(size.x / 2, size.y / 2) != image.getPixel(size.x / 2, size.y / 2));
     fs::remove_all(dir);
 }
+
+TEST_CASE("--record records from the first frame; R stops, and starting again numbers on") {
+    Scenario sc;
+    sc.title = "viewer record test";
+    sc.K = 100;
+    sc.width = 6;
+    sc.height = 4;
+    Habitat open;
+    sc.habitats = {open};
+    sc.habitat_of_patch.assign(24, 0);
+    Inoculum in;
+    in.exponent = 1.0;
+    sc.inocula = {in};
+    sc.until = 3.0;
+    sc.output_every = 0.05;
+
+    const fs::path dir = fs::temp_directory_path() / "tessera_viewer_record";
+    fs::remove_all(dir);
+    ViewerOptions o;
+    o.record_dir = (dir / "rec").string();
+    o.record_at_start = true;  // what `tessera view --record DIR` sets
+    o.script = "frames=1;key=R;frames=5;key=R;frames=5;quit";
+    o.frames = 2000;
+    REQUIRE(run_viewer(sc, o) == 0);
+    // Frame 0 was written before any key was pressed; the second start wrote the next
+    // number, not frame 0 again.
+    REQUIRE(fs::exists(dir / "rec" / "frame_000000.png"));
+    CHECK(fs::exists(dir / "rec" / "frame_000001.png"));
+    std::size_t files = 0;
+    for (const auto& e : fs::directory_iterator(dir / "rec")) files += e.path().extension() == ".png";
+    CHECK(files >= 2);
+    fs::remove_all(dir);
+}

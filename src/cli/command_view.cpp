@@ -1,4 +1,5 @@
-// tessera view SCENARIO [--set ...] [--record DIR]: the live window.
+// tessera view SCENARIO [--set ...] [--record DIR]: the live window; with --record, frames
+// are recorded to DIR from the first one (R stops and restarts).
 #include <iostream>
 
 #include "cli/render_commands.hpp"
@@ -21,7 +22,10 @@ int view_command(const ViewOptions& o) {
         return 2;
     }
     ViewerOptions options;
-    if (!o.record.empty()) options.record_dir = o.record;
+    if (!o.record.empty()) {
+        options.record_dir = o.record;
+        options.record_at_start = true;  // "--record DIR" records what the window shows from the start
+    }
     options.script = o.script;
     options.frames = o.frames;
     options.view = *view;

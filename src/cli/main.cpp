@@ -63,7 +63,10 @@ int main(int argc, char** argv) {
     auto* view_cmd = app.add_subcommand("view", "Watch a scenario live in a window; press H in the window for the keys");
     view_cmd->add_option("scenario", view.scenario, "Scenario file (TOML)")->required();
     view_cmd->add_option("--set", view.sets, "Override a scenario key (repeatable)")->type_name("KEY=VALUE");
-    view_cmd->add_option("--record", view.record, "Directory for frames recorded with the R key");
+    view_cmd->add_option("--record", view.record,
+                         "Record frames (frame_NNNNNN.png, lattice and legend as shown) to DIR from the start; "
+                         "R stops and restarts. Without it, R records to tessera-recording/")
+        ->type_name("DIR");
     view_cmd->add_option("--view", view.view, "View to start with: trait, dormant, transfer, exponent, habitat, stress");
     view_cmd->add_option("--frames", view.frames, "Close after this many drawn frames (for tests)")->check(CLI::NonNegativeNumber);
     view_cmd->add_option("--script", view.script,
