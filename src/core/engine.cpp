@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <optional>
 #include <random>
 #include <stdexcept>
 
@@ -13,6 +14,7 @@
 #include "core/exact_spatial.hpp"
 #include "core/leap_patch.hpp"
 #include "core/rng.hpp"
+#include "core/step_validator.hpp"
 
 namespace tessera {
 
@@ -23,8 +25,13 @@ struct Engine::Scratch {
     std::vector<std::int64_t> outbox;
     std::vector<std::uint64_t> lost_per_patch;
     std::vector<std::uint64_t> sent_per_patch;
+    std::vector<std::uint64_t> received_per_patch;  // immigrants, for the validate mode's books
     std::unique_ptr<ExactSpatial> spatial;  // method = "exact-spatial" only
     std::vector<PatchConditions> patch_conditions;
+
+#ifdef TESSERA_VALIDATE
+    std::optional<StepValidator> validator;  // docs/reliability.md "Validate mode"
+#endif
 
     Scratch(const TraitGrid& g, const RateTable& r, double K) : exact(g, r, K), leap(g, r, K) {}
 };
@@ -67,6 +74,9 @@ Engine::Engine(const Scenario& scenario, std::uint32_t replicate)
     }
     class_conditions_ = timeline_.at(0.0);
     inoculate();
+#ifdef TESSERA_VALIDATE
+    scratch_->validator.emplace(scenario_.source_path, scenario_.seed, replicate_);
+#endif
 }
 
 Engine::~Engine() = default;
@@ -127,6 +137,9 @@ void Engine::run(Observer& observer, const std::atomic<bool>* stop, bool resumed
         if (finished) due |= series_output | (every[1] > 0 ? unsigned{fields_output} : 0u);
         if (due) observer.observe(*this, due);
         if (finished || (stop && stop->load())) return;
+#ifdef TESSERA_VALIDATE
+        if (scratch_->validator->stop_now()) return;  // TESSERA_STOP_AFTER_STEP
+#endif
 
         double target = end;
         for (int k = 0; k < 3; ++k) {
@@ -143,8 +156,15 @@ void Engine::advance_to(double t_end, const std::atomic<bool>* stop) {
         if (stop && stop->load()) return;
         double next = std::min({t_end, time_ + scenario_.sync, timeline_.next_change_after(time_)});
         if (reached(next, t_end)) next = t_end;
+#ifdef TESSERA_VALIDATE
+        validate_before_step(next);
+#endif
         step(next - time_);
         time_ = next;
+#ifdef TESSERA_VALIDATE
+        validate_after_step();
+        if (scratch_->validator->stop_now()) return;
+#endif
     }
     time_ = std::max(time_, t_end);
 }
@@ -195,6 +215,9 @@ void Engine::local_phase(double dt) {
             leap.advance(a, d, conditions(p), dt, rng, patch_counts_[p]);
         } else {
             scratch_->exact.local().advance(a, d, conditions(p), dt, rng, patch_counts_[p]);
+#ifdef TESSERA_VALIDATE
+            scratch_->validator->kept_sums(scratch_->exact.local().check_kept_sums(), p, lattice_.width());
+#endif
         }
     });
 }
@@ -208,6 +231,7 @@ void Engine::migration_phase(double dt) {
     s.outbox.assign(P * per_patch, 0);
     s.lost_per_patch.assign(P, 0);
     s.sent_per_patch.assign(P, 0);
+    s.received_per_patch.assign(P, 0);
     const double rate[2] = {scenario_.rates.migration, scenario_.rates.migration_dormant};
     const StreamKey base{scenario_.seed, replicate_, 0};
 
@@ -264,7 +288,10 @@ void Engine::migration_phase(double dt) {
                 s.outbox.data() + static_cast<std::size_t>(from.patch) * per_patch;
             for (int c = 0; c < 2; ++c) {
                 const std::int64_t* in = box + (static_cast<std::size_t>(dir) * 2 + c) * T;
-                for (int i = 0; i < T; ++i) counts[c][i] += in[i];
+                for (int i = 0; i < T; ++i) {
+                    counts[c][i] += in[i];
+                    s.received_per_patch[q] += static_cast<std::uint64_t>(in[i]);
+                }
             }
         }
     });
@@ -295,6 +322,33 @@ void Engine::restore(const State& s) {
     migrants_ = s.migrants;
     class_conditions_ = s.class_conditions;
 }
+// ------------------------------------------------------------------------------------------
+
+// --- validate mode (docs/reliability.md) ----------------------------------------------------
+#ifdef TESSERA_VALIDATE
+void Engine::validate_before_step(double t_next) {
+    Scratch& s = *scratch_;
+    s.validator->before(lattice_, patch_counts_, lost_, step_, time_, t_next);
+    // A step without a migration phase moves nobody: its books read zero.
+    s.lost_per_patch.assign(lattice_.patches(), 0);
+    s.sent_per_patch.assign(lattice_.patches(), 0);
+    s.received_per_patch.assign(lattice_.patches(), 0);
+}
+
+void Engine::validate_after_step() {
+    Scratch& s = *scratch_;
+    if (scenario_.method == Method::exact_spatial) {
+        // Its migrations are kept as lattice totals only: balance those, and check every
+        // patch's kept sums, which live across the whole step there.
+        s.validator->after(lattice_, patch_counts_, lost_, nullptr, false);
+        for (std::size_t p = 0; p < lattice_.patches(); ++p)
+            s.validator->kept_sums(s.spatial->patch_engine(p).check_kept_sums(), p, lattice_.width());
+        return;
+    }
+    const MigrationBooks books{&s.sent_per_patch, &s.received_per_patch, &s.lost_per_patch};
+    s.validator->after(lattice_, patch_counts_, lost_, &books, true);
+}
+#endif
 // ------------------------------------------------------------------------------------------
 
 EventCounts Engine::totals() const {

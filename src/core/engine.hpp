@@ -98,6 +98,10 @@ private:
     void local_phase(double dt);
     void exact_spatial_step(double dt);
     void migration_phase(double dt);
+#ifdef TESSERA_VALIDATE
+    void validate_before_step(double t_next);  // docs/reliability.md "Validate mode"
+    void validate_after_step();
+#endif
     void inoculate();
 
     Scenario scenario_;

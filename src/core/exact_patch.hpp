@@ -17,6 +17,7 @@
 #pragma once
 
 #include <cstdint>
+#include <string>
 #include <vector>
 
 #include "core/event_counts.hpp"
@@ -51,6 +52,12 @@ public:
     std::int64_t dormant_total() const { return dormant_total_; }
     int active_cell(std::uint64_t rank) const;   // trait of the active cell of this rank
     int dormant_cell(std::uint64_t rank) const;  // trait of the dormant cell of this rank
+
+    // Validate mode (docs/reliability.md): the kept sums of the attached state against a
+    // recomputation from its counts. Integer sums must agree exactly, floating ones within
+    // the rounding that incremental updates allow. Returns "" when they agree, else what
+    // differs. O(traits); changes nothing.
+    std::string check_kept_sums() const;
 
 private:
     void recompute_sums();

@@ -36,6 +36,9 @@ public:
     void advance(Lattice& lattice, const std::vector<PatchConditions>& conditions, double duration,
                  Rng& rng, std::vector<EventCounts>& counts, Tally& tally);
 
+    // Patch p's engine, attached to its counts (the validate mode checks its kept sums).
+    const ExactPatch& patch_engine(std::size_t p) const { return patches_[p]; }
+
 private:
     double patch_rate(std::size_t p, const std::vector<PatchConditions>& conditions) const;
     void jump(Lattice& lattice, std::size_t p, const std::vector<PatchConditions>& conditions, Rng& rng,

@@ -4,6 +4,7 @@
 #include <SFML/System/Err.hpp>
 
 #include <cstdio>
+#include <cstring>
 #include <optional>
 #include <fstream>
 #include <map>
@@ -41,6 +42,27 @@ std::optional<std::uint32_t> parse_colour(const std::string& c) {
         else return std::nullopt;
     }
     return v;
+}
+
+// Why `bytes` is no PNG we accept, from its signature and IHDR chunk (PNG spec, sections 5.2
+// and 11.2.2): nullopt when it may be decoded.
+std::optional<std::string> png_header_problem(const std::string& bytes) {
+    static constexpr unsigned char signature[8] = {0x89, 'P', 'N', 'G', '\r', '\n', 0x1a, '\n'};
+    if (bytes.empty()) return "the file is empty";
+    if (bytes.size() < 8 || std::memcmp(bytes.data(), signature, 8) != 0)
+        return "it is not a PNG file: it does not start with the PNG signature";
+    if (bytes.size() < 24 || bytes.compare(12, 4, "IHDR") != 0) return "the PNG file is truncated before its IHDR header";
+    auto be32 = [&](std::size_t at) {
+        std::uint32_t v = 0;
+        for (std::size_t i = 0; i < 4; ++i) v = (v << 8) | static_cast<unsigned char>(bytes[at + i]);
+        return v;
+    };
+    const std::uint32_t w = be32(16), h = be32(20);
+    if (w == 0 || h == 0) return "the PNG header says " + std::to_string(w) + " x " + std::to_string(h) + " pixels";
+    if (static_cast<double>(w) * h > 1e8)
+        return "the PNG header says " + std::to_string(w) + " x " + std::to_string(h) +
+               " pixels, more than 1e8; at most 1e8 patches are accepted";
+    return std::nullopt;
 }
 
 }  // namespace
@@ -136,6 +158,14 @@ HabitatMap read_image_map(const std::string& path, const std::vector<Habitat>& h
         return map;
     }
     const std::string bytes((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    // PNG only, and its size read from its header before anything is decoded: SFML's decoder
+    // takes other formats too and allocates whatever a header claims (a 62-byte BMP claiming
+    // 10^8 rows decoded for minutes; found by fuzz_image_map).
+    const std::optional<std::string> not_png = png_header_problem(bytes);
+    if (not_png) {
+        map.problems.push_back({0, "cannot read the image (" + *not_png + "); accepted: a PNG image, one pixel per patch"});
+        return map;
+    }
     sf::Image image;
     // SFML explains a failure on its own error stream; catch it for our message.
     std::ostringstream why;

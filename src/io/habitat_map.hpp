@@ -26,8 +26,8 @@ struct HabitatMap {
 // spaces ignored, every character the `symbol` of one of `habitats`.
 HabitatMap read_text_map(const std::string& path, const std::vector<Habitat>& habitats);
 
-// Reads a PNG (or any image SFML reads): every pixel's colour (alpha ignored) must equal the
-// `colour` of one of `habitats`.
+// Reads a PNG image (PNG only: its size is checked from its header before any decoding):
+// every pixel's colour (alpha ignored) must equal the `colour` of one of `habitats`.
 HabitatMap read_image_map(const std::string& path, const std::vector<Habitat>& habitats);
 
 }  // namespace tessera

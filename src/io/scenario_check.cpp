@@ -12,6 +12,9 @@ namespace tessera::scenario_io {
 
 namespace {
 
+// Patches x traits: each pair holds an active and a dormant 8-byte count (16 GB at the limit).
+constexpr double state_count_limit = 1e9;
+
 std::string entry(const char* array, std::size_t i) { return std::string(array) + "[" + std::to_string(i + 1) + "]"; }
 
 // "0, 2, 4", shortened for long axes to "0, 0.1, 0.2, ..., 10".
@@ -159,9 +162,34 @@ void check_habitats(const Scenario& s, Findings& f) {
     }
 }
 
+// Counts are signed 64-bit; cells are kept below 2^62 so that sums of a few never wrap.
+constexpr double cell_limit = 4611686018427387904.0;  // 2^62
+
+// K_p = K * capacity is the scale every count in a patch grows to: it must stay a number of
+// cells a count can hold, with room for the fluctuations above it.
+constexpr double patch_capacity_limit = 1e18;
+
+void check_capacities(const Scenario& s, Findings& f) {
+    auto check = [&](const std::string& key, double capacity) {
+        const double Kp = s.K * capacity;
+        if (!(Kp <= patch_capacity_limit))
+            f.add(f.place_any({key, "scale.K"}), key,
+                  "K * capacity = " + format_number(s.K) + " * " + format_number(capacity) + " = " + format_number(Kp) +
+                      " cells per patch is too many; accepted: K * capacity <= 1e18 (capacity <= " +
+                      format_number(patch_capacity_limit / s.K) + " with this K)");
+    };
+    for (std::size_t i = 0; i < s.habitats.size(); ++i) check(entry("habitat", i) + ".capacity", s.habitats[i].capacity);
+    for (std::size_t i = 0; i < s.schedules.size(); ++i)
+        if (s.schedules[i].capacity) check(entry("schedule", i) + ".capacity", *s.schedules[i].capacity);
+}
+
 void check_inocula(const Scenario& s, Findings& f) {
     double max_capacity = 0.0;
     for (const Habitat& h : s.habitats) max_capacity = std::max(max_capacity, h.capacity);
+    // A schedule in force at t = 0 sets the capacity the inoculum sees.
+    for (const Schedule& sc : s.schedules) max_capacity = std::max(max_capacity, sc.capacity.value_or(0.0));
+    // Inocula add up where they overlap; bounded as if all of them did.
+    double per_patch = 0.0;
     const std::string inside = "a place inside the " + std::to_string(s.width) + " x " + std::to_string(s.height) +
                                " lattice: X from 0 to " + std::to_string(s.width - 1) + ", Y from 0 to " +
                                std::to_string(s.height - 1);
@@ -176,14 +204,20 @@ void check_inocula(const Scenario& s, Findings& f) {
                 f.add(key + ".where", std::string(in.where == Inoculum::Where::patch ? "patch " : "rectangle ") +
                                           "reaches outside the lattice; accepted: " + inside);
         }
+        double cells = in.active.value_or(0.0);
         if (in.exponent && s.K * max_capacity > 1.0) {
-            const double cells = std::pow(s.K * max_capacity, *in.exponent);
-            if (!(cells < 4611686018427387904.0))
+            cells = std::pow(s.K * max_capacity, *in.exponent);
+            if (!(cells < cell_limit))
                 f.add(key + ".exponent", "K_p^exponent = " + format_number(cells) +
                                              " cells per patch is too many; accepted: an exponent giving fewer "
                                              "than 2^62 cells");
         }
+        per_patch += cells + in.dormant;
     }
+    if (!(per_patch < cell_limit) && !s.inocula.empty())
+        f.add(entry("inoculum", s.inocula.size() - 1),
+              "the inocula together put up to " + format_number(per_patch) +
+                  " cells in one patch; accepted: fewer than 2^62 (4.6e18) cells per patch in total");
 }
 
 void check_schedules(const Scenario& s, Findings& f) {
@@ -208,10 +242,23 @@ void check_scenario(const Scenario& s, Findings& f) {
     check_habitats(s, f);
     check_inocula(s, f);
     check_schedules(s, f);
-    if (static_cast<double>(s.width) * s.height > 1e8)
+    check_capacities(s, f);
+    const double patches = static_cast<double>(s.width) * s.height;
+    if (patches > 1e8) {
         f.add(f.place_any({"lattice.width", "lattice.map", "lattice"}), "lattice.width",
-              "the lattice has " + format_number(static_cast<double>(s.width) * s.height) +
-                  " patches; accepted: at most 1e8 patches");
+              "the lattice has " + format_number(patches) + " patches; accepted: at most 1e8 patches");
+    } else if (axis_ok(s.dormancy_axis) && axis_ok(s.transfer_axis)) {
+        // The state is one active and one dormant 8-byte count per trait per patch, and the
+        // exact spatial engine keeps as much again: refuse what no machine of ours can hold.
+        const double traits = static_cast<double>(s.dormancy_axis.levels) * s.transfer_axis.levels;
+        if (patches * traits > state_count_limit)
+            f.add(f.place_any({"lattice.width", "lattice.map", "traits.dormancy", "traits"}), "lattice",
+                  format_number(patches) + " patches x " + format_number(traits) + " traits = " +
+                      format_number(patches * traits) + " counts per compartment (" +
+                      format_number(std::ceil(patches * traits * 16 / 1e9)) +
+                      " GB of state) is too large; accepted: patches x traits <= 1e9 (16 GB), with fewer trait "
+                      "levels or a smaller lattice");
+    }
 }
 
 }  // namespace tessera::scenario_io

@@ -112,8 +112,11 @@ std::string resolved_scenario_toml(const Scenario& s) {
     for (const Habitat& h : s.habitats) {
         w.array_header("habitat");
         w.text("name", h.name);
-        w.text("symbol", h.symbol);
-        w.text("colour", h.colour);
+        // Symbols and colours at their defaults stay unwritten: the loader lets defaults repeat
+        // (only written ones must differ), so writing them would make a scenario whose
+        // habitats share the default colour fail to load back (found by fuzz_scenario).
+        if (h.symbol != Habitat{}.symbol) w.text("symbol", h.symbol);
+        if (h.colour != Habitat{}.colour) w.text("colour", h.colour);
         w.number("capacity", h.capacity);
         w.number("stress", h.stress);
         w.number("resuscitation", h.resuscitation);
