@@ -152,7 +152,6 @@ std::string resolved_scenario_toml(const Scenario& s) {
     w.integer("seed", static_cast<long long>(s.seed));
     w.integer("threads", s.threads);
     w.number("checkpoint_every", s.checkpoint_every);
-    w.number("checkpoint_every", s.checkpoint_every);
 
     w.header("output");
     w.number("every", s.output_every);
