@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cstdio>
 #include <string>
+#include <vector>
 
 #include "render/canvas.hpp"
 #include "render/colour_ramps.hpp"
@@ -73,12 +74,17 @@ void colour_bar(Pen& pen, Rgb8 (*ramp)(double), const std::string& lo, const std
     pen.y += pen.font.line_height(small_size) + 6;
 }
 
+// "(2, 4)": a trait by its dormancy and transfer abilities, as in the patch inspector.
+std::string trait_name(const TraitGrid& g, int trait) {
+    return "(" + number(g.dormancy(trait)) + ", " + number(g.transfer(trait)) + ")";
+}
+
 void trait_grid(Pen& pen, const FieldSnapshot& s, const TraitPalette& palette) {
     const TraitGrid& g = s.grid;
     // Say what each direction of colour means, in the words a newcomer would use.
     pen.line("colour: the trait with most cells", small_size, muted_text_colour);
     pen.line("\u2192 transfer ability: blue \u2192 yellow", small_size, muted_text_colour);
-    pen.line("\u2193 dormancy ability: cyan, lime \u2192 violet, pink", small_size, muted_text_colour);
+    pen.line("\u2193 dormancy ability: cyan \u2192 violet, pink", small_size, muted_text_colour);
     pen.y += 2;
     // Row labels take the width of the widest dormancy value.
     int label_w = 0;
@@ -98,20 +104,28 @@ void trait_grid(Pen& pen, const FieldSnapshot& s, const TraitPalette& palette) {
         pen.y += step;
     }
     pen.y += 8;
-    // How fullness shows: one trait (the middle one, the least colourful, so the strip
-    // reads as plain brightness) at the fill levels of legend_fill_levels, drawn with the
-    // rasteriser's own fill_shade.
+    // How fullness shows: the traits that dominate most patches now (up to three), each
+    // at the fill levels of legend_fill_levels, drawn with the rasteriser's own
+    // fill_shade, so a dim patch can be matched to its trait (dim yellow turns olive, dim
+    // orange brown).
     pen.line("brightness: how full the patch is,", small_size, muted_text_colour);
     pen.line("log(1+N) / log K_p, N = all its cells", small_size, muted_text_colour);
-    const Rgb8 c = palette.colour(g.x_levels() / 2, g.y_levels() / 2);
+    const std::vector<int> shown = legend_fill_traits(s);
+    int name_w = 0;
+    for (int t : shown) name_w = std::max(name_w, pen.font.width(trait_name(g, t), small_size));
+    const int strip_x = name_w + 6;
     const int strip = static_cast<int>(std::size(legend_fill_levels));
-    const int w = std::min(36, (pen.width - 8) / strip);
-    for (int i = 0; i < strip; ++i) pen.rect(i * w, 0, w, 16, fill_shade(c, legend_fill_levels[i]));
-    pen.y += 19;
+    const int w = std::min(36, (pen.width - strip_x - 8) / strip);
+    for (int t : shown) {
+        pen.text(trait_name(g, t), small_size, muted_text_colour, 0);
+        for (int i = 0; i < strip; ++i) pen.rect(strip_x + i * w, 0, w, 16, fill_shade(palette.colour(t), legend_fill_levels[i]));
+        pen.y += 18;
+    }
+    pen.y += 1;
     const std::string mid = "\u221aK_p", hi = "K_p cells";
-    pen.text("1 cell", small_size, muted_text_colour);
-    pen.text(mid, small_size, muted_text_colour, strip * w / 2 - pen.font.width(mid, small_size) / 2);
-    pen.text(hi, small_size, muted_text_colour, strip * w - pen.font.width(hi, small_size));
+    pen.text("1 cell", small_size, muted_text_colour, strip_x);
+    pen.text(mid, small_size, muted_text_colour, strip_x + strip * w / 2 - pen.font.width(mid, small_size) / 2);
+    pen.text(hi, small_size, muted_text_colour, strip_x + strip * w - pen.font.width(hi, small_size));
     pen.y += pen.font.line_height(small_size) + 6;
 }
 
@@ -130,6 +144,26 @@ void habitat_list(Pen& pen, const FieldSnapshot& s) {
 }
 
 }  // namespace
+
+std::vector<int> legend_fill_traits(const FieldSnapshot& s) {
+    // Count the patches each trait dominates; the top three, most patches first, ties to
+    // the lower index (stable order).
+    std::vector<std::int64_t> patches(static_cast<std::size_t>(s.traits()), 0);
+    for (std::size_t p = 0; p < static_cast<std::size_t>(s.width) * static_cast<std::size_t>(s.height); ++p) {
+        const int d = summarise(s, p).dominant;
+        if (d >= 0) ++patches[static_cast<std::size_t>(d)];
+    }
+    std::vector<int> order(patches.size());
+    for (std::size_t i = 0; i < order.size(); ++i) order[i] = static_cast<int>(i);
+    std::stable_sort(order.begin(), order.end(), [&](int a, int b) { return patches[static_cast<std::size_t>(a)] > patches[static_cast<std::size_t>(b)]; });
+    std::vector<int> shown;
+    for (int t : order) {
+        if (patches[static_cast<std::size_t>(t)] == 0 || shown.size() == 3) break;
+        shown.push_back(t);
+    }
+    if (shown.empty()) shown.push_back(s.grid.index(s.grid.x_levels() / 2, s.grid.y_levels() / 2));
+    return shown;
+}
 
 int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const FieldSnapshot& s, FieldView view,
                 const TraitPalette& palette) {
@@ -157,7 +191,10 @@ int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const
             break;
     }
     if (view != FieldView::habitat && view != FieldView::stress) pen.keyed(empty_colour, "no cells");
-    pen.keyed(wall_colour, "wall (capacity 0)", true);
+    // The habitat list already shows wall habitats hatched; elsewhere say what hatching means.
+    const bool listed_wall = view == FieldView::habitat &&
+                             std::any_of(s.conditions.begin(), s.conditions.end(), [](const PatchConditions& c) { return c.capacity <= 0; });
+    if (!listed_wall) pen.keyed(wall_colour, "wall (capacity 0)", true);
     return pen.y - y;
 }
 

@@ -1,11 +1,13 @@
 // Legends: what the colours of a view mean, drawn into the side panel of a frame or the
 // window. The dominant-trait legend is a small grid of swatches laid out like the trait
 // grid (rows: dormancy ability, columns: transfer ability), labelled with the levels and
-// with what each direction of colour means, and a strip showing how brightness encodes how
-// full a patch is (the same fill_shade as the lattice).
+// with what each direction of colour means, and strips showing how brightness encodes how
+// full a patch is for the traits on screen (the same fill_shade as the lattice).
 #pragma once
 
 #include <SFML/Graphics/Image.hpp>
+
+#include <vector>
 
 #include "render/field_snapshot.hpp"
 #include "render/field_view.hpp"
@@ -22,8 +24,12 @@ int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const
 // Swatch side in the trait grid legend, exposed for tests that look for the swatches.
 inline constexpr int legend_swatch = 22;
 
-// The fill levels (log(1 + N) / log K_p) of the dominant-trait legend's brightness strip,
+// The fill levels (log(1 + N) / log K_p) of the dominant-trait legend's brightness strips,
 // left to right: 1 cell (about 0), sqrt(K_p) cells (0.5), K_p cells (1).
 inline constexpr double legend_fill_levels[] = {0.0, 0.25, 0.5, 0.75, 1.0};
+
+// The traits whose brightness strips the legend shows: those dominating most patches now,
+// most first, at most three; the middle trait of the grid when the lattice is empty.
+std::vector<int> legend_fill_traits(const FieldSnapshot& s);
 
 }  // namespace tessera

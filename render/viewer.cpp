@@ -42,6 +42,11 @@ const char* const help_lines[] = {
     "H or F1      this help",
     "Q or Esc     quit",
     "",
+    "Reading the trait view",
+    "Colour       the trait with most cells in the patch (grid in the legend)",
+    "Brightness   how full: bright = K_p cells, dim = a few, near black = none",
+    "Hatched      wall: no cells live or pass there",
+    "",
     "tessera is a model for research, not guidance for",
     "clinical or environmental decisions.",
 };
@@ -200,7 +205,15 @@ void Viewer::draw_panel(int x, int W, int H) {
 }
 
 void Viewer::draw_help(unsigned W, unsigned H) {
-    const int w = 520, h = 30 + static_cast<int>(std::size(help_lines)) * (font_.line_height(13) + 4);
+    // Wide enough for the longest description, so no line runs past the box.
+    constexpr int key_column = 130;
+    int w = 520;
+    for (const std::string l : help_lines) {
+        const std::size_t gap = l.find("  ");
+        const int text_w = gap == std::string::npos ? font_.width(l, 13) : key_column + font_.width(l.substr(l.find_first_not_of(' ', gap)), 13);
+        w = std::max(w, text_w + 36);
+    }
+    const int h = 30 + static_cast<int>(std::size(help_lines)) * (font_.line_height(13) + 4);
     const int x = (static_cast<int>(W) - w) / 2, y = (static_cast<int>(H) - h) / 2;
     for (int j = 0; j < h; ++j) {
         for (int i = 0; i < w; ++i) blend_pixel(canvas_, x + i, y + j, sf::Color(12, 12, 16), 0.9);
@@ -212,7 +225,7 @@ void Viewer::draw_help(unsigned W, unsigned H) {
         const std::size_t gap = l.find("  ");
         const bool keyed = gap != std::string::npos && l.rfind("tessera", 0) != 0;
         font_.draw(canvas_, x + 18, ty, keyed ? l.substr(0, gap) : l, 13, to_sf(text_colour));
-        if (keyed) font_.draw(canvas_, x + 130, ty, l.substr(l.find_first_not_of(' ', gap)), 13, to_sf(muted_text_colour));
+        if (keyed) font_.draw(canvas_, x + key_column, ty, l.substr(l.find_first_not_of(' ', gap)), 13, to_sf(muted_text_colour));
         ty += font_.line_height(13) + 4;
     }
 }

@@ -3,6 +3,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <vector>
 
 #include "render/canvas.hpp"
 #include "render/colour_ramps.hpp"
@@ -107,6 +108,7 @@ TEST_CASE("the legend's brightness strip is the rasteriser's fill shading") {
     const Rgb8 half = pixel(lattice, 0, 0), full = pixel(lattice, 1, 0);
     CHECK(half == fill_shade(palette.colour(middle), 0.5));
     CHECK(full == palette.colour(middle));
+    REQUIRE(legend_fill_traits(s) == std::vector<int>{middle});
 
     Typeface font;
     const int width = 230;
@@ -128,4 +130,15 @@ TEST_CASE("the legend's brightness strip is the rasteriser's fill shading") {
     }
     CHECK(count(half) >= 16 * 16);
     CHECK(count(full) >= 2 * 16 * 16);  // the strip's right end and the grid's swatch
+}
+
+TEST_CASE("the brightness strips show the traits dominating most patches, most first") {
+    FieldSnapshot s = small_state();
+    // small_state: trait 5 dominates patch 1, trait 0 patch 2.
+    CHECK(legend_fill_traits(s) == std::vector<int>{0, 5});  // one patch each: lower index first
+    s.active[0 * 9 + 5] = 3;                                 // now trait 5 dominates two patches
+    CHECK(legend_fill_traits(s) == std::vector<int>{5, 0});
+    std::fill(s.active.begin(), s.active.end(), 0);
+    std::fill(s.dormant.begin(), s.dormant.end(), 0);
+    CHECK(legend_fill_traits(s) == std::vector<int>{s.grid.index(1, 1)});  // empty: the middle trait
 }
