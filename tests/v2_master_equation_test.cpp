@@ -13,7 +13,7 @@
 // The generator Q is written here from model.md section 2 alone, independently of
 // src/core: every event, its rate and its effect on the counts. The engine's end states of
 // N = 50000 replicates are then compared with p(t) by Pearson's chi-squared test, bins
-// with expected count below 5 pooled, of size chi_squared_alpha (1e-6, see
+// with expected count below 5 pooled, of size chi_squared_alpha (1e-7, see
 // validation_support.hpp for the budget). With 50000 replicates a factor 2 in any rate
 // that the system uses gives chi-squared statistics in the hundreds or thousands (the
 // factor-2 breaks of the report were all caught by margins of that size).

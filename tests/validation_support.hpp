@@ -31,12 +31,16 @@
 namespace tessera::validation {
 
 // The error budget. A correct engine must fail the whole validation set less than once in
-// 10^4 runs. The set makes about 100 checks: each moment or probability check allows
-// z_tolerance = 5 standard errors (two-sided normal tail 5.7e-7 per check), each
-// chi-squared test has size chi_squared_alpha = 1e-6. 100 checks x ~1e-6 = 1e-4 at worst,
-// and in practice less (the moment checks at one time are positively correlated).
+// 10^4 runs. The statistical checks of V1, V2, V4, V5 and V8 are 38 moment or proportion
+// checks, each allowing z_tolerance = 5 standard errors (two-sided normal tail 5.7e-7),
+// and 13 chi-squared tests of size chi_squared_alpha = 1e-7: 38 x 5.7e-7 + 13 x 1e-7 =
+// 2.3e-5 by the Bonferroni bound. The margin of 4 covers the normal and chi-squared
+// approximations being less accurate that far in the tail (Pearson's statistic with
+// expected counts >= 5 has a somewhat heavier tail than chi-squared). Counted by seeds:
+// 40 values of TESSERA_TEST_SEED ran every test without a failure, and the chi-squared
+// p-values and z-scores they gave were uniform and standard normal.
 inline constexpr double z_tolerance = 5.0;
-inline constexpr double chi_squared_alpha = 1e-6;
+inline constexpr double chi_squared_alpha = 1e-7;
 
 // The seed of a test: `fixed` in CI, or derived from TESSERA_TEST_SEED when set.
 inline std::uint64_t test_seed(std::uint64_t fixed) {
