@@ -6,9 +6,10 @@
 // The engine check runs two patches without migration, one of which is "treated" with a
 // stress of 30 during [0.5, 0.6) plain, repeating every 1. Outside the windows the
 // treated patch grows or stays near K (net rate >= -C (N - K)/K; its fluctuation over 0.05
-// is about 0.5% of K = 1e4), inside it loses at rate about 30: three quarters of it every
-// 0.05 (at least half is checked). The untreated patch never drops by more than a few per cent. Margins are tens of
-// standard deviations, so these are deterministic checks in effect.
+// is about 0.5% of K = 1e4), inside it loses at rate about 30, three quarters of it every
+// 0.05 (at least half is checked). The untreated patch never drops by more than a few per
+// cent. Margins are several standard deviations at every point, so these are
+// deterministic checks in effect.
 #include <catch2/catch.hpp>
 
 #include <cmath>
