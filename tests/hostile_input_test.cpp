@@ -3,12 +3,20 @@
 // the fuzzers found are regression cases here.
 #include <catch2/catch.hpp>
 
+#include <unistd.h>
+
+#include <filesystem>
+#include <fstream>
 #include <string>
 #include <vector>
 
+#include "io/habitat_map.hpp"
 #include "io/scenario_loader.hpp"
+#include "io/scenario_writer.hpp"
 
 using namespace tessera;
+using namespace std::string_literals;
+namespace fs = std::filesystem;
 
 namespace {
 
@@ -80,4 +88,56 @@ TEST_CASE("lattices beyond memory are refused with the limit named") {
     CHECK_NOTHROW(parse_scenario("[traits]\ndormancy = { max = 1.0, levels = 1000 }\ntransfer = { max = 1.0, levels = 1 }\n"
                                  "[lattice]\nwidth = 1000\nheight = 1000\n",
                                  "ok.toml"));
+}
+
+// Found by fuzz_scenario: habitats that all keep the default colour loaded, but their
+// resolved file wrote that colour on each and was refused as "also used by habitat[1]".
+TEST_CASE("a resolved scenario whose habitats share default symbols or colours loads back") {
+    const Scenario s = parse_scenario("[[habitat]]\nname = \"a\"\nsymbol = \"a\"\n[[habitat]]\nname = \"b\"\n"
+                                      "colour = \"#000000\"\n[[habitat]]\nname = \"c\"\n",
+                                      "shared.toml");
+    Scenario back = parse_scenario(resolved_scenario_toml(s), "shared.resolved.toml");
+    back.source_path = s.source_path;
+    CHECK(back == s);
+}
+
+// Found by fuzz_image_map: a 63-byte BMP named .png whose header claimed 2 x 16777216 pixels
+// was decoded for minutes. Only PNG is read now, and its size is checked before decoding.
+TEST_CASE("map images: PNG only, their size checked from the header before decoding") {
+    const fs::path dir = fs::temp_directory_path() / ("tessera_hostile_" + std::to_string(::getpid()));
+    fs::create_directories(dir);
+    const std::vector<Habitat> classes(1);
+    auto problem_of = [&](const std::string& name, const std::string& bytes) {
+        std::ofstream(dir / name, std::ios::binary) << bytes;
+        const HabitatMap m = read_image_map((dir / name).string(), classes);
+        REQUIRE(m.problems.size() == 1);
+        return m.problems[0].message;
+    };
+    std::string bmp = "BM>\0\0\0\0\0006\0\0\0(\0\0\0\2\0\0\0\0\0\0\1\1\0\030\0"s;
+    bmp.resize(63, '\0');
+    CHECK_THAT(problem_of("bmp.png", bmp), Catch::Contains("not a PNG file"));
+    CHECK_THAT(problem_of("empty.png", ""), Catch::Contains("the file is empty"));
+    // A PNG header claiming 100000 x 100000 pixels and nothing else.
+    std::string png = "\x89PNG\r\n\x1a\n\0\0\0\x0dIHDR\0\x01\x86\xa0\0\x01\x86\xa0\x08\x02\0\0\0"s;
+    CHECK_THAT(problem_of("huge.png", png), Catch::Contains("100000 x 100000 pixels, more than 1e8"));
+    CHECK_THAT(problem_of("short.png", png.substr(0, 20)), Catch::Contains("truncated before its IHDR"));
+    // Found by fuzz_image_map: a 3 x 2 PNG of 79 bytes whose IDAT chunk claimed 1.3 GB made
+    // the decoder grow its buffer that far (minutes under ASan).
+    std::string small = "\x89PNG\r\n\x1a\n\0\0\0\x0dIHDR\0\0\0\x03\0\0\0\x02\x08\x02\0\0\0\x12\x16\xfc\xf1"
+                        "\x4d\xff\0\x16IDATx\x9c"s;
+    small.resize(79, '\0');
+    CHECK_THAT(problem_of("idat.png", small), Catch::Contains("a chunk at byte 33 claims 1308557334 bytes"));
+    fs::remove_all(dir);
+}
+
+// Found by fuzz_scenario: an override whose value was not UTF-8 was kept as a bare string and
+// loaded, but its resolved file was no valid TOML.
+TEST_CASE("--set values must be UTF-8 text") {
+    CHECK_THAT(errors_of("[[habitat]]\nname = \"a\"\n", {"habitat[1].name=bz .bir\xff\xff\xff\xfa"}),
+               Catch::Contains("not valid UTF-8"));
+    CHECK_THAT(errors_of("", {"title=\xc0\xaf"}), Catch::Contains("not valid UTF-8"));  // an overlong '/'
+    CHECK_THAT(errors_of("", {"title=\xed\xa0\x80"}), Catch::Contains("not valid UTF-8"));  // a surrogate
+    CHECK_THAT(errors_of("", {"title=\xe2\x82"}), Catch::Contains("not valid UTF-8"));  // cut short
+    CHECK(parse_scenario("", "ok.toml", {"title=caf\xc3\xa9 \xe2\x82\xac \xf0\x9f\xa6\xa0"}).title ==
+          "caf\xc3\xa9 \xe2\x82\xac \xf0\x9f\xa6\xa0");
 }

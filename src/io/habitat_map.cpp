@@ -62,6 +62,19 @@ std::optional<std::string> png_header_problem(const std::string& bytes) {
     if (static_cast<double>(w) * h > 1e8)
         return "the PNG header says " + std::to_string(w) + " x " + std::to_string(h) +
                " pixels, more than 1e8; at most 1e8 patches are accepted";
+    // Every chunk (length, type, data, CRC) must lie inside the file: the decoder grows its
+    // buffer to whatever length a chunk claims before reading it (a 79-byte file claiming a
+    // 1.3 GB IDAT chunk; found by fuzz_image_map).
+    for (std::size_t at = 8; at < bytes.size();) {
+        if (bytes.size() - at < 12) return "the PNG file is damaged: it ends inside a chunk header";
+        const std::uint32_t length = be32(at);
+        const std::string type = bytes.substr(at + 4, 4);
+        if (length > bytes.size() - at - 12)
+            return "the PNG file is truncated or damaged: a chunk at byte " + std::to_string(at) + " claims " +
+                   std::to_string(length) + " bytes, more than the file holds";
+        at += 12 + static_cast<std::size_t>(length);
+        if (type == "IEND") break;
+    }
     return std::nullopt;
 }
 

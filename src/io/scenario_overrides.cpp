@@ -1,6 +1,8 @@
 // Step 1 of loading: `--set key=value` overrides, written into the parsed table before it is
 // read, so that an override meets exactly the checks a value in the file meets.
+#include <cstdint>
 #include <optional>
+#include <string_view>
 
 #include "io/scenario_findings.hpp"
 #include "io/text_help.hpp"
@@ -57,6 +59,43 @@ toml::table parse_value(const std::string& text) {
     return t;
 }
 
+// Whether `s` is well-formed UTF-8 (RFC 3629: no overlongs, no surrogates, at most U+10FFFF).
+// A scenario file is TOML, which must be UTF-8; a value that is not would be kept here but
+// refused when the resolved file is read back (found by fuzz_scenario).
+bool valid_utf8(std::string_view s) {
+    std::size_t i = 0;
+    while (i < s.size()) {
+        const auto c = static_cast<unsigned char>(s[i]);
+        int n = 0;
+        std::uint32_t cp = 0;
+        if (c < 0x80) {
+            ++i;
+            continue;
+        } else if (c >= 0xc2 && c <= 0xdf) {
+            n = 1;
+            cp = c & 0x1f;
+        } else if (c >= 0xe0 && c <= 0xef) {
+            n = 2;
+            cp = c & 0x0f;
+        } else if (c >= 0xf0 && c <= 0xf4) {
+            n = 3;
+            cp = c & 0x07;
+        } else {
+            return false;
+        }
+        if (i + static_cast<std::size_t>(n) >= s.size()) return false;  // cut short
+        for (int k = 1; k <= n; ++k) {
+            const auto d = static_cast<unsigned char>(s[i + k]);
+            if ((d & 0xc0) != 0x80) return false;
+            cp = (cp << 6) | (d & 0x3f);
+        }
+        if ((n == 2 && cp < 0x800) || (n == 3 && cp < 0x10000) || cp > 0x10ffff || (cp >= 0xd800 && cp <= 0xdfff))
+            return false;
+        i += static_cast<std::size_t>(n) + 1;
+    }
+    return true;
+}
+
 }  // namespace
 
 void apply_overrides(toml::table& root, const std::vector<std::string>& overrides, Findings& f) {
@@ -64,6 +103,10 @@ void apply_overrides(toml::table& root, const std::vector<std::string>& override
     const std::string accepted = "KEY=VALUE with a dotted key of the scenario file, e.g. rates.transfer=0 or "
                                  "habitat[2].stress=3 (entries counted from 1)";
     for (const std::string& o : overrides) {
+        if (!valid_utf8(o)) {
+            f.add(here, "", "an override is not valid UTF-8 text; accepted: " + accepted);
+            continue;
+        }
         const auto eq = o.find('=');
         if (eq == std::string::npos) {
             f.add(here, o, "has no '='; accepted: " + accepted);
