@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "core/engine.hpp"
+#include "core/parallel.hpp"
 #include "io/series_writer.hpp"
 
 using namespace tessera;
@@ -90,7 +91,7 @@ TEST_CASE("replicates run in parallel equal replicates run one by one") {
     for (std::uint32_t r = 0; r < 4; ++r) serial.push_back(run_text(s, r, 1));
     {
         tbb::global_control limit(tbb::global_control::max_allowed_parallelism, 2);
-        tbb::parallel_for(0, 4, [&](int r) {
+        tessera::parallel_for(0, 4, [&](int r) {  // tells TSan of the fork and join
             Engine e(s, static_cast<std::uint32_t>(r));
             Collect c;
             e.run(c);

@@ -132,7 +132,7 @@ TEST_CASE("map images: PNG only, their size checked from the header before decod
 
 // Found by fuzz_scenario: an override whose value was not UTF-8 was kept as a bare string and
 // loaded, but its resolved file was no valid TOML.
-TEST_CASE("--set values must be UTF-8 text") {
+TEST_CASE("values given with --set must be UTF-8 text") {
     CHECK_THAT(errors_of("[[habitat]]\nname = \"a\"\n", {"habitat[1].name=bz .bir\xff\xff\xff\xfa"}),
                Catch::Contains("not valid UTF-8"));
     CHECK_THAT(errors_of("", {"title=\xc0\xaf"}), Catch::Contains("not valid UTF-8"));  // an overlong '/'

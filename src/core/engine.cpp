@@ -14,6 +14,7 @@
 #include "core/exact_spatial.hpp"
 #include "core/leap_patch.hpp"
 #include "core/rng.hpp"
+#include "core/parallel.hpp"
 #include "core/step_validator.hpp"
 
 namespace tessera {
@@ -201,7 +202,7 @@ void Engine::exact_spatial_step(double dt) {
 void Engine::local_phase(double dt) {
     const int T = traits_.size();
     const StreamKey base{scenario_.seed, replicate_, 0};
-    tbb::parallel_for(std::size_t{0}, lattice_.patches(), [&](std::size_t p) {
+    parallel_for(std::size_t{0}, lattice_.patches(), [&](std::size_t p) {
         std::int64_t* a = lattice_.active(p);
         std::int64_t* d = lattice_.dormant(p);
         if (!has_cells(a, d, T)) return;  // idle patches cost a scan of their counts
@@ -236,7 +237,7 @@ void Engine::migration_phase(double dt) {
     const StreamKey base{scenario_.seed, replicate_, 0};
 
     // Emigration: each patch writes only its own counts and its own outbox.
-    tbb::parallel_for(std::size_t{0}, P, [&](std::size_t p) {
+    parallel_for(std::size_t{0}, P, [&](std::size_t p) {
         std::int64_t* counts[2] = {lattice_.active(p), lattice_.dormant(p)};
         if (!has_cells(counts[0], counts[1], T)) return;
         const PatchConditions& here = conditions(p);
@@ -277,7 +278,7 @@ void Engine::migration_phase(double dt) {
     });
 
     // Immigration: each patch reads what its neighbours sent towards it, in direction order.
-    tbb::parallel_for(std::size_t{0}, P, [&](std::size_t q) {
+    parallel_for(std::size_t{0}, P, [&](std::size_t q) {
         const int col = static_cast<int>(q % lattice_.width());
         const int row = static_cast<int>(q / lattice_.width());
         std::int64_t* counts[2] = {lattice_.active(q), lattice_.dormant(q)};
