@@ -127,6 +127,10 @@ void trait_grid(Pen& pen, const FieldSnapshot& s, const TraitPalette& palette) {
     pen.text(mid, small_size, muted_text_colour, strip_x + strip * w / 2 - pen.font.width(mid, small_size) / 2);
     pen.text(hi, small_size, muted_text_colour, strip_x + strip * w - pen.font.width(hi, small_size));
     pen.y += pen.font.line_height(small_size) + 6;
+    // Room for the strips not shown now, so every frame of a run has the same size (a
+    // sequence of frames becomes a video only if it does).
+    const std::size_t most = std::min<std::size_t>(max_fill_traits, static_cast<std::size_t>(s.traits()));
+    if (shown.size() < most) pen.y += 18 * static_cast<int>(most - shown.size());
 }
 
 void habitat_list(Pen& pen, const FieldSnapshot& s) {
@@ -158,7 +162,7 @@ std::vector<int> legend_fill_traits(const FieldSnapshot& s) {
     std::stable_sort(order.begin(), order.end(), [&](int a, int b) { return patches[static_cast<std::size_t>(a)] > patches[static_cast<std::size_t>(b)]; });
     std::vector<int> shown;
     for (int t : order) {
-        if (patches[static_cast<std::size_t>(t)] == 0 || shown.size() == 3) break;
+        if (patches[static_cast<std::size_t>(t)] == 0 || shown.size() == max_fill_traits) break;
         shown.push_back(t);
     }
     if (shown.empty()) shown.push_back(s.grid.index(s.grid.x_levels() / 2, s.grid.y_levels() / 2));

@@ -29,7 +29,8 @@ inline constexpr int legend_swatch = 22;
 inline constexpr double legend_fill_levels[] = {0.0, 0.25, 0.5, 0.75, 1.0};
 
 // The traits whose brightness strips the legend shows: those dominating most patches now,
-// most first, at most three; the middle trait of the grid when the lattice is empty.
+// most first, at most max_fill_traits; the middle trait of the grid when the lattice is empty.
+inline constexpr std::size_t max_fill_traits = 3;
 std::vector<int> legend_fill_traits(const FieldSnapshot& s);
 
 }  // namespace tessera

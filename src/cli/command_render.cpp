@@ -21,11 +21,19 @@ namespace {
 
 bool ffmpeg_installed() { return std::system("command -v ffmpeg > /dev/null 2>&1") == 0; }
 
+// One shell word, whatever the text holds (single quotes, with ' written as '\'').
+std::string shell_quoted(const std::string& text) {
+    std::string out = "'";
+    for (char c : text) out += c == '\'' ? std::string("'\\''") : std::string(1, c);
+    return out + "'";
+}
+
 // Raw RGBA frames on ffmpeg's standard input; H.264 needs even sizes, hence the pad filter.
 std::FILE* open_video(const std::string& file, unsigned w, unsigned h, double fps) {
     const std::string command = "ffmpeg -y -loglevel error -f rawvideo -pixel_format rgba -video_size " +
                                 std::to_string(w) + "x" + std::to_string(h) + " -framerate " + std::to_string(fps) +
-                                " -i - -vf pad=ceil(iw/2)*2:ceil(ih/2)*2 -pix_fmt yuv420p -c:v libx264 '" + file + "'";
+                                " -i - -vf 'pad=ceil(iw/2)*2:ceil(ih/2)*2' -pix_fmt yuv420p -c:v libx264 " +
+                                shell_quoted(file);
     return popen(command.c_str(), "w");
 }
 
@@ -74,7 +82,8 @@ int render_command(const RenderOptions& o) {
                 pipe = open_video(o.video, size.x, size.y, o.fps);
                 if (!pipe) throw std::runtime_error("cannot start ffmpeg");
             }
-            if (frame.getSize() == size) std::fwrite(frame.getPixelsPtr(), 4, std::size_t{size.x} * size.y, pipe);
+            if (frame.getSize() != size) throw std::runtime_error("frame " + std::to_string(i) + " differs in size from the first; cannot make a video");
+            std::fwrite(frame.getPixelsPtr(), 4, std::size_t{size.x} * size.y, pipe);
         }
         if (pipe && pclose(pipe) != 0) {
             std::cerr << "error: ffmpeg could not write " << o.video << "\n";
