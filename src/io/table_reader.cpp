@@ -74,7 +74,9 @@ bool TableReader::number(std::string_view key, double& out, const Bounds& bounds
         report(key, "must be a number, got " + describe(*n) + "; accepted: " + bounds.accepted);
         return false;
     }
-    const double v = *n->value<double>();
+    // toml++ converts an integer to double only when every integer near it is exact in a
+    // double (|v| <= 2^53), so large integers are converted here, rounding to nearest.
+    const double v = n->is_integer() ? static_cast<double>(*n->value<std::int64_t>()) : *n->value<double>();
     const std::string problem = bounds_problem(v, bounds);
     if (!problem.empty()) {
         report(key, problem + "; accepted: " + bounds.accepted);
