@@ -2,7 +2,9 @@
 
 #include <SFML/Graphics/Image.hpp>
 #include <SFML/System/Err.hpp>
+#include <zlib.h>
 
+#include <cmath>
 #include <cstdio>
 #include <cstring>
 #include <optional>
@@ -52,6 +54,8 @@ std::optional<std::string> png_header_problem(const std::string& bytes) {
     if (bytes.size() < 8 || std::memcmp(bytes.data(), signature, 8) != 0)
         return "it is not a PNG file: it does not start with the PNG signature";
     if (bytes.size() < 24 || bytes.compare(12, 4, "IHDR") != 0) return "the PNG file is truncated before its IHDR header";
+    if (bytes.size() < 33 || bytes.compare(8, 4, std::string("\0\0\0\x0d", 4)) != 0)
+        return "the PNG file's IHDR header is damaged";
     auto be32 = [&](std::size_t at) {
         std::uint32_t v = 0;
         for (std::size_t i = 0; i < 4; ++i) v = (v << 8) | static_cast<unsigned char>(bytes[at + i]);
@@ -65,6 +69,7 @@ std::optional<std::string> png_header_problem(const std::string& bytes) {
     // Every chunk (length, type, data, CRC) must lie inside the file: the decoder grows its
     // buffer to whatever length a chunk claims before reading it (a 79-byte file claiming a
     // 1.3 GB IDAT chunk; found by fuzz_image_map).
+    std::string idat;
     for (std::size_t at = 8; at < bytes.size();) {
         if (bytes.size() - at < 12) return "the PNG file is damaged: it ends inside a chunk header";
         const std::uint32_t length = be32(at);
@@ -72,9 +77,37 @@ std::optional<std::string> png_header_problem(const std::string& bytes) {
         if (length > bytes.size() - at - 12)
             return "the PNG file is truncated or damaged: a chunk at byte " + std::to_string(at) + " claims " +
                    std::to_string(length) + " bytes, more than the file holds";
+        if (type == "IDAT") idat.append(bytes, at + 8, length);
         at += 12 + static_cast<std::size_t>(length);
         if (type == "IEND") break;
     }
+    // The compressed pixels must inflate to no more than the header's size allows. The
+    // decoder SFML bundles reads zeros past the end of a damaged stream and can inflate them
+    // for ever (a 79-byte 3 x 2 image took a gigabyte; found by fuzz_image_map).
+    const int channels[7] = {1, 0, 3, 1, 2, 0, 4};  // by colour type (PNG spec 11.2.2)
+    const int depth = static_cast<unsigned char>(bytes[24]), colour = static_cast<unsigned char>(bytes[25]);
+    if (colour > 6 || channels[colour] == 0 || depth < 1 || depth > 16)
+        return "the PNG header has colour type " + std::to_string(colour) + " and bit depth " + std::to_string(depth);
+    const double row = 1.0 + std::ceil(static_cast<double>(w) * channels[colour] * depth / 8.0);
+    // Interlaced images hold seven passes, each with its own filter bytes and row rounding.
+    const double most = static_cast<double>(h) * row + (bytes[28] != 0 ? 8.0 * (static_cast<double>(h) + 8) * 2 : 0.0);
+    z_stream z{};
+    if (inflateInit(&z) != Z_OK) return "the PNG's image data cannot be checked (zlib)";
+    z.next_in = reinterpret_cast<Bytef*>(idat.data());
+    z.avail_in = static_cast<uInt>(idat.size());
+    unsigned char scratch[1 << 14];
+    double produced = 0;
+    int rc = Z_OK;
+    while (rc == Z_OK && produced <= most) {
+        z.next_out = scratch;
+        z.avail_out = sizeof scratch;
+        rc = inflate(&z, Z_NO_FLUSH);
+        produced += static_cast<double>(sizeof scratch - z.avail_out);
+        if (rc == Z_BUF_ERROR || (rc == Z_OK && z.avail_in == 0 && z.avail_out != 0)) break;  // input used up
+    }
+    inflateEnd(&z);
+    if (produced > most) return "the PNG's image data inflates to more than its header's size allows";
+    if (rc != Z_STREAM_END) return "the PNG's image data is damaged or truncated";
     return std::nullopt;
 }
 
