@@ -40,9 +40,9 @@ int demo_command(const DemoOptions& o) {
                   << "  " << d << "fields.h5             per-patch counts at every frame (HDF5)\n"
                   << "  " << d << "scenario.resolved.toml every setting used\n"
                   << "\nWatch it live (needs a display):\n"
-                  << "  tessera view " << file.string() << "\n"
+                  << "  " << o.program << " view " << file.string() << "\n"
                   << "Draw other views from the saved fields, e.g. the dormant fraction:\n"
-                  << "  tessera render " << o.out << " --out " << d << "dormant --view dormant\n"
+                  << "  " << o.program << " render " << o.out << " --out " << d << "dormant --view dormant\n"
                   << "\nAn invented scenario for research and teaching, not guidance for clinical or\n"
                   << "environmental decisions.\n";
     }

@@ -26,6 +26,7 @@ struct CheckOptions {
 };
 
 struct DemoOptions {
+    std::string program = "tessera";  // as the user typed it, for the commands the demo suggests
     std::string out = "tessera-demo";
     std::optional<int> threads;
     bool quiet = false;

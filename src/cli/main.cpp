@@ -45,6 +45,7 @@ int main(int argc, char** argv) {
     check_cmd->add_option("--set", check.sets, "Override a scenario key (repeatable)")->type_name("KEY=VALUE");
 
     DemoOptions demo;
+    demo.program = argv[0];
     auto* demo_cmd = app.add_subcommand("demo", "Run the bundled demo scenario into ./tessera-demo/");
     demo_cmd->add_option("--out", demo.out, "Output directory");
     demo_cmd->add_option("--threads", demo.threads, "Worker threads, 0 = all cores")->check(CLI::NonNegativeNumber);
