@@ -194,6 +194,12 @@ void Engine::exact_spatial_step(double dt) {
     for (std::size_t p = 0; p < lattice_.patches(); ++p) s.patch_conditions[p] = conditions(p);
     Rng rng({scenario_.seed, replicate_, lattice_stream}, step_, Phase::local);
     ExactSpatial::Tally tally;
+#ifdef TESSERA_VALIDATE
+    // Per-patch books for the validate mode (zeroed in validate_before_step).
+    tally.emigrated = &s.sent_per_patch;
+    tally.immigrated = &s.received_per_patch;
+    tally.lost_from = &s.lost_per_patch;
+#endif
     s.spatial->advance(lattice_, s.patch_conditions, dt, rng, patch_counts_, tally);
     lost_ += tally.lost;
     migrants_ += tally.migrants;
@@ -338,16 +344,13 @@ void Engine::validate_before_step(double t_next) {
 
 void Engine::validate_after_step() {
     Scratch& s = *scratch_;
-    if (scenario_.method == Method::exact_spatial) {
-        // Its migrations are kept as lattice totals only: balance those, and check every
-        // patch's kept sums, which live across the whole step there.
-        s.validator->after(lattice_, patch_counts_, lost_, nullptr, false);
-        for (std::size_t p = 0; p < lattice_.patches(); ++p)
-            s.validator->kept_sums(s.spatial->patch_engine(p).check_kept_sums(), p, lattice_.width());
-        return;
-    }
     const MigrationBooks books{&s.sent_per_patch, &s.received_per_patch, &s.lost_per_patch};
     s.validator->after(lattice_, patch_counts_, lost_, &books, true);
+    if (scenario_.method == Method::exact_spatial) {
+        // Every patch's kept sums live across the whole step there: check them all.
+        for (std::size_t p = 0; p < lattice_.patches(); ++p)
+            s.validator->kept_sums(s.spatial->patch_engine(p).check_kept_sums(), p, lattice_.width());
+    }
 }
 #endif
 // ------------------------------------------------------------------------------------------

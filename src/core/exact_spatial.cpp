@@ -48,6 +48,7 @@ void ExactSpatial::jump(Lattice& lattice, std::size_t p, const std::vector<Patch
             from.add_dormant(trait, -1);
         }
         ++tally.lost;
+        if (tally.lost_from) ++(*tally.lost_from)[p];
         return;
     }
     const auto q = static_cast<std::size_t>(to.patch);
@@ -60,6 +61,8 @@ void ExactSpatial::jump(Lattice& lattice, std::size_t p, const std::vector<Patch
         patches_[q].add_dormant(trait, +1);
     }
     ++tally.migrants;
+    if (tally.emigrated) ++(*tally.emigrated)[p];
+    if (tally.immigrated) ++(*tally.immigrated)[q];
     touched = to.patch;
 }
 

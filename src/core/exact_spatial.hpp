@@ -28,6 +28,11 @@ public:
     struct Tally {
         std::uint64_t migrants = 0;  // jumps that moved a cell to another patch
         std::uint64_t lost = 0;      // cells lost through an absorbing edge
+        // Per-patch books, kept only when given (the validate mode balances every patch):
+        // cells that left each patch, arrived in it, and were lost from it over an edge.
+        std::vector<std::uint64_t>* emigrated = nullptr;
+        std::vector<std::uint64_t>* immigrated = nullptr;
+        std::vector<std::uint64_t>* lost_from = nullptr;
     };
 
     // Runs the whole lattice for `duration` plain time units. `conditions[p]` holds patch
