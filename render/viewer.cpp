@@ -51,16 +51,6 @@ const char* const help_lines[] = {
     "clinical or environmental decisions.",
 };
 
-const char* method_name(Method m) {
-    switch (m) {
-        case Method::auto_select: return "auto";
-        case Method::exact: return "exact";
-        case Method::leap: return "leap";
-        case Method::exact_spatial: return "exact-spatial";
-    }
-    return "?";
-}
-
 std::string format(const char* fmt, double v) {
     char buf[96];
     std::snprintf(buf, sizeof buf, fmt, v);
@@ -193,7 +183,7 @@ void Viewer::draw_panel(int x, int W, int H) {
     while (title.size() > 4 && font_.width(title, 13) > tw) title = title.substr(0, title.size() - 4) + "...";
     line(title, 13, text_colour);
     line(time_stamp(snapshot_.t, snapshot_.t_logK) + (worker_.finished() ? "  (end)" : ""), 13, text_colour);
-    line(format("K = %g", scenario_.K) + "   method " + method_name(scenario_.method) +
+    line(format("K = %g", scenario_.K) + "   method " + name_of(scenario_.method) +
              "   seed " + std::to_string(worker_.seed()), 11, muted_text_colour);
     line(format("speed %.3g time units / s", worker_.speed()) + (worker_.paused() ? "   PAUSED" : ""), 11,
          worker_.paused() ? Rgb8{255, 200, 90} : muted_text_colour);
