@@ -80,7 +80,7 @@ TEST_CASE("Binomial sampler fits the binomial distribution", "[leap][draws]") {
         double p;
     };
     for (Case c : {Case{5, 0.3}, Case{40, 0.1}, Case{200, 0.04}, Case{1000, 0.02}, Case{300, 0.4}, Case{50, 0.9},
-                   Case{100000, 0.001}}) {
+                   Case{100000, 0.001}, Case{600, 0.5}, Case{2000000, 0.0005}, Case{1000000, 0.25}}) {
         Rng rng(StreamKey{validation::test_seed(9), 0, 0}, static_cast<std::uint64_t>(c.n), Phase::local);
         const double m = c.n * c.p;
         const int kmax = static_cast<int>(std::min<double>(c.n, m + 12 * std::sqrt(m) + 20));
@@ -94,5 +94,40 @@ TEST_CASE("Binomial sampler fits the binomial distribution", "[leap][draws]") {
                                                     validation::chi_squared_alpha);
         INFO("n " << c.n << " p " << c.p << ": " << r.describe());
         CHECK(r.passed());
+    }
+}
+
+// BTRS at the sizes the migration phase meets on large lattices (n up to 1e12 cells, p from
+// 5e-4 leaving a patch in a step to 1/4 for the direction): mean and variance against
+// n p and n p (1 - p). The fourth central moment of the binomial is
+// n p q (1 + 3 (n - 2) p q) (Feller 1968, ch. XI), which gives the variance's standard error.
+TEST_CASE("Binomial sampler has the right mean and variance at very large n", "[leap][draws]") {
+    struct Case {
+        std::int64_t n;
+        double p;
+    };
+    for (Case c : {Case{1000000, 0.0005}, Case{1000000000, 0.0005}, Case{1000000000000, 0.0005},
+                   Case{1000000000000, 0.25}, Case{4000000000000000000, 1e-12}}) {
+        Rng rng(StreamKey{validation::test_seed(10), 0, 0}, static_cast<std::uint64_t>(c.p * 1e6) ^ c.n,
+                Phase::local);
+        const double nd = static_cast<double>(c.n);
+        const double m = nd * c.p;
+        const double v = m * (1 - c.p);
+        const int draws = 100000;
+        double sum = 0, sum2 = 0;
+        for (int i = 0; i < draws; ++i) {
+            const std::int64_t k = binomial(rng, c.n, c.p);
+            REQUIRE(k >= 0);
+            REQUIRE(k <= c.n);
+            const double d = static_cast<double>(k) - m;  // centred: no cancellation
+            sum += d;
+            sum2 += d * d;
+        }
+        const double mean_dev = sum / draws;
+        const double var = sum2 / draws - mean_dev * mean_dev;
+        INFO("n " << c.n << " p " << c.p << ": sample mean - np = " << mean_dev << ", variance / npq = " << var / v);
+        CHECK(std::fabs(mean_dev) <= validation::z_tolerance * std::sqrt(v / draws));
+        const double mu4 = v * (1 + 3 * (nd - 2) * c.p * (1 - c.p));
+        CHECK(std::fabs(var - v) <= validation::z_tolerance * std::sqrt((mu4 - v * v) / draws));
     }
 }

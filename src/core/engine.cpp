@@ -7,12 +7,12 @@
 #include <cmath>
 #include <limits>
 #include <optional>
-#include <random>
 #include <stdexcept>
 
 #include "core/exact_patch.hpp"
 #include "core/exact_spatial.hpp"
 #include "core/leap_patch.hpp"
+#include "core/random_draws.hpp"
 #include "core/rng.hpp"
 #include "core/parallel.hpp"
 #include "core/step_validator.hpp"
@@ -257,14 +257,11 @@ void Engine::migration_phase(double dt) {
             if (!(leave > 0)) continue;
             for (int i = 0; i < T; ++i) {
                 if (counts[c][i] == 0) continue;
-                std::int64_t remaining =
-                    std::binomial_distribution<std::int64_t>(counts[c][i], leave)(rng);
+                std::int64_t remaining = binomial(rng, counts[c][i], leave);
                 // Split the leavers uniformly over the directions (sequential binomials).
                 for (int dir = 0; dir < dirs && remaining > 0; ++dir) {
                     const std::int64_t n =
-                        dir + 1 == dirs ? remaining
-                                        : std::binomial_distribution<std::int64_t>(
-                                              remaining, 1.0 / (dirs - dir))(rng);
+                        dir + 1 == dirs ? remaining : binomial(rng, remaining, 1.0 / (dirs - dir));
                     remaining -= n;
                     if (n == 0) continue;
                     const auto to = neighbourhood_.step(col, row, dir);

@@ -7,10 +7,11 @@
 // variables", Insurance: Mathematics and Economics 12:39-45) for means of 10 and more. PTRS
 // costs O(1) for any mean, so a leap at K = 1e12 costs what it costs at K = 1e4.
 //
-// Binomial: inversion for small means (Devroye 1986, section X.4.3), otherwise
-// std::binomial_distribution (deterministic for a given libstdc++, which the determinism
-// test pins down). The leap engine draws binomials only to split a known number of
-// conjugations over donor traits (a multinomial), so their speed matters little.
+// Binomial: inversion for small means (Devroye 1986, section X.4.3), otherwise Hormann's
+// BTRS (W. Hormann 1993, "The generation of binomial random variates", J. Statist. Comput.
+// Simul. 46:101-110), O(1) per draw for any n. The leap engine draws binomials to split
+// conjugations over donor traits; the migration phase draws one per (trait, compartment)
+// and direction in every patch and step, so their cost matters there.
 #pragma once
 
 #include <cstdint>
