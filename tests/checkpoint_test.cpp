@@ -4,13 +4,14 @@
 #include <catch2/catch.hpp>
 #include <tbb/global_control.h>
 
+#include <atomic>
 #include <string>
 #include <vector>
 
 #include "core/engine.hpp"
 #include "io/checkpoint.hpp"
 #include "io/checksum.hpp"
-#include "io/series_writer.hpp"
+#include "run_support.hpp"
 
 using namespace tessera;
 
@@ -55,14 +56,14 @@ Scenario lattice_scenario(Method method, double K) {
     return s;
 }
 
-// Collects series rows; asks the run to stop after `stop_after` observations (0: never).
-struct Collect : Observer {
-    std::string text;
+// Collects series rows and the engine's books at every look; asks the run to stop after
+// `stop_after` observations (0: never).
+struct Collect : runtest::CollectSeries {
     int seen = 0;
     int stop_after = 0;
     std::atomic<bool> stop{false};
     void observe(const Engine& e, unsigned kinds) override {
-        if (kinds & series_output) append_series_rows(e, text);
+        CollectSeries::observe(e, kinds);
         text += "lost " + std::to_string(e.lost()) + " migrants " + std::to_string(e.migrants()) + " births " +
                 std::to_string(e.totals().births) + " step " + std::to_string(e.step_number()) + "\n";
         if (++seen == stop_after) stop = true;

@@ -4,25 +4,17 @@
 // Byte comparison of the series text, so any difference fails.
 #include <catch2/catch.hpp>
 #include <tbb/global_control.h>
-#include <tbb/parallel_for.h>
 
 #include <string>
 #include <vector>
 
-#include "core/engine.hpp"
 #include "core/parallel.hpp"
-#include "io/series_writer.hpp"
+#include "run_support.hpp"
 
 using namespace tessera;
+using runtest::run_text;
 
 namespace {
-
-struct Collect : Observer {
-    std::string text;
-    void observe(const Engine& e, unsigned kinds) override {
-        if (kinds & series_output) append_series_rows(e, text);
-    }
-};
 
 // A small scenario that uses every local event and, on a lattice, migration.
 Scenario busy_scenario(int width, int height) {
@@ -57,30 +49,22 @@ Scenario busy_scenario(int width, int height) {
     return s;
 }
 
-std::string run_text(const Scenario& s, std::uint32_t replicate, int threads) {
-    tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
-    Engine e(s, replicate);
-    Collect c;
-    e.run(c);
-    return c.text;
-}
-
 }  // namespace
 
 TEST_CASE("same seed gives the same bytes; another seed does not") {
     const Scenario s = busy_scenario(1, 1);
-    const std::string a = run_text(s, 0, 1);
-    CHECK(a == run_text(s, 0, 1));
+    const std::string a = run_text(s, 1);
+    CHECK(a == run_text(s, 1));
     Scenario other = s;
     other.seed = 43;
-    CHECK(a != run_text(other, 0, 1));
-    CHECK(a != run_text(s, 1, 1));  // replicates are independent streams
+    CHECK(a != run_text(other, 1));
+    CHECK(a != run_text(s, 1, /*replicate=*/1));  // replicates are independent streams
 }
 
 TEST_CASE("a lattice run gives the same bytes on 1 and 2 threads") {
     const Scenario s = busy_scenario(4, 3);
-    const std::string one = run_text(s, 0, 1);
-    const std::string two = run_text(s, 0, 2);
+    const std::string one = run_text(s, 1);
+    const std::string two = run_text(s, 2);
     REQUIRE(one.size() > 1000);
     CHECK(one == two);
 }
@@ -88,14 +72,11 @@ TEST_CASE("a lattice run gives the same bytes on 1 and 2 threads") {
 TEST_CASE("replicates run in parallel equal replicates run one by one") {
     const Scenario s = busy_scenario(2, 2);
     std::vector<std::string> serial, parallel(4);
-    for (std::uint32_t r = 0; r < 4; ++r) serial.push_back(run_text(s, r, 1));
+    for (std::uint32_t r = 0; r < 4; ++r) serial.push_back(run_text(s, 1, r));
     {
         tbb::global_control limit(tbb::global_control::max_allowed_parallelism, 2);
         tessera::parallel_for(0, 4, [&](int r) {  // tells TSan of the fork and join
-            Engine e(s, static_cast<std::uint32_t>(r));
-            Collect c;
-            e.run(c);
-            parallel[static_cast<std::size_t>(r)] = c.text;
+            parallel[static_cast<std::size_t>(r)] = runtest::series_of(s, static_cast<std::uint32_t>(r));
         });
     }
     CHECK(serial == parallel);

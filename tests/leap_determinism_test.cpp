@@ -6,23 +6,15 @@
 // 1, 2, 3", SC11). determinism_test.cpp covers the exact engine at K = 300; this covers K
 // where "auto" leaps in crowded patches and simulates exactly in the sparse ones.
 #include <catch2/catch.hpp>
-#include <tbb/global_control.h>
 
 #include <string>
 
-#include "core/engine.hpp"
-#include "io/series_writer.hpp"
+#include "run_support.hpp"
 
 using namespace tessera;
+using runtest::run_text;
 
 namespace {
-
-struct Collect : Observer {
-    std::string text;
-    void observe(const Engine& e, unsigned kinds) override {
-        if (kinds & series_output) append_series_rows(e, text);
-    }
-};
 
 // 4 x 3 patches at K = 1e5: a full column of the resident, a few cells of two other traits
 // in one corner, the rest empty and filled by migration, so that crowded patches leap and
@@ -63,14 +55,6 @@ Scenario crowded(Method method) {
     s.output_every = 0.25;
     s.seed = 7;
     return s;
-}
-
-std::string run_text(const Scenario& s, int threads) {
-    tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
-    Engine e(s);
-    Collect c;
-    e.run(c);
-    return c.text;
 }
 
 }  // namespace
