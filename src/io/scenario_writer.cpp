@@ -50,6 +50,16 @@ std::string axis_text(const TraitAxis& a) {
 
 std::string trait_text(double x, double y) { return "[" + toml_number(x) + ", " + toml_number(y) + "]"; }
 
+// The conditions a habitat class sets and a schedule changes, under the same keys: a
+// Habitat's are numbers, a Schedule's optional (the unset ones stay unwritten).
+template <class Conditions>
+void write_conditions(Writer& w, const Conditions& c) {
+    w.number("capacity", c.capacity);
+    w.number("stress", c.stress);
+    w.number("resuscitation", c.resuscitation);
+    w.number("permeability", c.permeability);
+}
+
 std::string absolute_text(const std::string& path) {
     if (path.empty()) return path;
     std::error_code ec;
@@ -117,10 +127,7 @@ std::string resolved_scenario_toml(const Scenario& s) {
         // habitats share the default colour fail to load back (found by fuzz_scenario).
         if (h.symbol != Habitat{}.symbol) w.text("symbol", h.symbol);
         if (h.colour != Habitat{}.colour) w.text("colour", h.colour);
-        w.number("capacity", h.capacity);
-        w.number("stress", h.stress);
-        w.number("resuscitation", h.resuscitation);
-        w.number("permeability", h.permeability);
+        write_conditions(w, h);
     }
 
     for (const Inoculum& in : s.inocula) {
@@ -138,10 +145,7 @@ std::string resolved_scenario_toml(const Scenario& s) {
         w.number("start", sc.start);
         w.number("end", sc.end);
         if (sc.every > 0) w.number("every", sc.every);
-        w.number("capacity", sc.capacity);
-        w.number("stress", sc.stress);
-        w.number("resuscitation", sc.resuscitation);
-        w.number("permeability", sc.permeability);
+        write_conditions(w, sc);
     }
 
     w.header("run");
