@@ -38,6 +38,11 @@ std::string grid_accepted(const Scenario& s) {
            levels_text(s.transfer_axis);
 }
 
+// What is wrong with a trait (x, y) that is not on the grid, and what is accepted.
+std::string off_grid(const Scenario& s, double x, double y) {
+    return "trait " + trait_text(x, y) + " is not on the grid; accepted: " + grid_accepted(s);
+}
+
 bool axis_ok(const TraitAxis& a) { return a.levels >= 1 && std::isfinite(a.max) && a.max >= 0 && (a.levels == 1 || a.max > 0); }
 
 void check_axes(const Scenario& s, Findings& f) {
@@ -61,8 +66,7 @@ void check_rates_on_grid(const Scenario& s, Findings& f) {
         const std::string key = entry("rates.override", i) + ".trait";
         auto t = grid.find(o.dormancy, o.transfer);
         if (!t) {
-            f.add(key, "trait " + trait_text(o.dormancy, o.transfer) + " is not on the grid; accepted: " +
-                           grid_accepted(s));
+            f.add(key, off_grid(s, o.dormancy, o.transfer));
             continue;
         }
         auto [it, fresh] = overridden.emplace(*t, i);
@@ -104,8 +108,7 @@ void check_rates_on_grid(const Scenario& s, Findings& f) {
     for (std::size_t i = 0; i < s.inocula.size(); ++i) {
         const Inoculum& in = s.inocula[i];
         if (!grid.find(in.dormancy, in.transfer))
-            f.add(entry("inoculum", i) + ".trait", "trait " + trait_text(in.dormancy, in.transfer) +
-                                                        " is not on the grid; accepted: " + grid_accepted(s));
+            f.add(entry("inoculum", i) + ".trait", off_grid(s, in.dormancy, in.transfer));
     }
 }
 
@@ -130,6 +133,16 @@ bool has_habitat(const Scenario& s, const std::string& name) {
     return false;
 }
 
+// Habitat i's `field` (spelt `shown` in messages, compared as `value`) must not repeat
+// one of an earlier habitat; `seen` maps the values met so far to their habitat.
+void check_unique(std::map<std::string, std::size_t>& seen, const std::string& value, std::size_t i,
+                  const char* field, const std::string& shown, const char* accepted, Findings& f) {
+    auto [it, fresh] = seen.emplace(value, i);
+    if (!fresh)
+        f.add(entry("habitat", i) + "." + field, std::string(field) + " " + shown + " is also used by " +
+                                                     entry("habitat", it->second) + "; accepted: " + accepted);
+}
+
 void check_habitats(const Scenario& s, Findings& f) {
     if (s.habitats.size() > 65535)
         f.add("habitat", "there are " + std::to_string(s.habitats.size()) + " classes; accepted: at most 65535");
@@ -138,26 +151,14 @@ void check_habitats(const Scenario& s, Findings& f) {
     std::map<std::string, std::size_t> names, symbols, colours;
     for (std::size_t i = 0; i < s.habitats.size(); ++i) {
         const Habitat& h = s.habitats[i];
-        auto [it, fresh] = names.emplace(h.name, i);
-        if (!fresh)
-            f.add(entry("habitat", i) + ".name", "name " + toml_string(h.name) + " is also used by " +
-                                                     entry("habitat", it->second) +
-                                                     "; accepted: a name no other habitat has");
-        if (f.has(entry("habitat", i) + ".symbol")) {
-            auto [its, fresh_s] = symbols.emplace(h.symbol, i);
-            if (!fresh_s)
-                f.add(entry("habitat", i) + ".symbol", "symbol " + toml_string(h.symbol) + " is also used by " +
-                                                           entry("habitat", its->second) +
-                                                           "; accepted: a character no other habitat uses");
-        }
+        check_unique(names, h.name, i, "name", toml_string(h.name), "a name no other habitat has", f);
+        if (f.has(entry("habitat", i) + ".symbol"))
+            check_unique(symbols, h.symbol, i, "symbol", toml_string(h.symbol),
+                         "a character no other habitat uses", f);
         if (f.has(entry("habitat", i) + ".colour")) {
             std::string lower = h.colour;
             for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-            auto [itc, fresh_c] = colours.emplace(lower, i);
-            if (!fresh_c)
-                f.add(entry("habitat", i) + ".colour", "colour " + h.colour + " is also used by " +
-                                                           entry("habitat", itc->second) +
-                                                           "; accepted: a colour no other habitat uses");
+            check_unique(colours, lower, i, "colour", h.colour, "a colour no other habitat uses", f);
         }
     }
 }
