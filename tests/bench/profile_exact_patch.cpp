@@ -8,21 +8,15 @@
 // of that part; Ir / events is the instruction count per event. Without valgrind it just
 // runs (the client requests are no-ops).
 #include <cstdio>
-#include <cstdlib>
 
 #include "bench_case.hpp"
-
-#if __has_include(<valgrind/callgrind.h>)
-#include <valgrind/callgrind.h>
-#else
-#define CALLGRIND_START_INSTRUMENTATION
-#define CALLGRIND_STOP_INSTRUMENTATION
-#endif
+#include "profile_support.hpp"
 
 int main(int argc, char** argv) {
-    const double K = argc > 1 ? std::atof(argv[1]) : 1e4;
-    const int levels = argc > 2 ? std::atoi(argv[2]) : 3;
-    const double time = argc > 3 ? std::atof(argv[3]) : 10.0;
+    using tessera::bench::int_argument, tessera::bench::number_argument;
+    const double K = number_argument(argc, argv, 1, 1e4);
+    const int levels = int_argument(argc, argv, 2, 3);
+    const double time = number_argument(argc, argv, 3, 10.0);
     tessera::bench::Case c(K, levels);
     c.run(tessera::bench::Case::burn_in);
     CALLGRIND_START_INSTRUMENTATION;

@@ -11,26 +11,19 @@
 #include <tbb/global_control.h>
 
 #include <cstdio>
-#include <cstdlib>
 #include <vector>
 
 #include "core/engine.hpp"
 #include "core/leap_patch.hpp"
 #include "leap_lattice_case.hpp"
-
-#if __has_include(<valgrind/callgrind.h>)
-#include <valgrind/callgrind.h>
-#else
-#define CALLGRIND_START_INSTRUMENTATION
-#define CALLGRIND_STOP_INSTRUMENTATION
-#endif
+#include "profile_support.hpp"
 
 int main(int argc, char** argv) {
     using namespace tessera;
-    const int side = argc > 1 ? std::atoi(argv[1]) : 8;
-    const double K = argc > 2 ? std::atof(argv[2]) : 1e6;
-    const double time = argc > 3 ? std::atof(argv[3]) : 0.05;
-    const int threads = argc > 4 ? std::atoi(argv[4]) : 1;
+    const int side = bench::int_argument(argc, argv, 1, 8);
+    const double K = bench::number_argument(argc, argv, 2, 1e6);
+    const double time = bench::number_argument(argc, argv, 3, 0.05);
+    const int threads = bench::int_argument(argc, argv, 4, 1);
     tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
     const Scenario s = bench::lattice_scenario(side, K);
     Engine engine(s);
@@ -53,7 +46,7 @@ int main(int argc, char** argv) {
     const LeapStats& st = leap.stats();
     std::printf("side=%d K=%g t=%g: per patch-step leaps %.2f rejected %.3f critical %.2f exact stretches %.2f "
                 "exact events %.1f events %.0f\n",
-                side, K, engine.time(), st.leaps / n, st.rejected / n, st.critical_firings / n,
+                side, K, engine.time(), st.leaps / n, st.rejected / n, st.critical_events / n,
                 st.exact_stretches / n, st.exact_events / n, static_cast<double>(events) / n);
     std::printf("patch 0:");
     for (int i = 0; i < T; ++i) std::printf(" %lld/%lld", static_cast<long long>(lat.active(0)[i]),
