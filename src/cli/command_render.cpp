@@ -9,7 +9,7 @@
 #include <stdexcept>
 
 #include "cli/render_commands.hpp"
-#include "io/scenario_loader.hpp"
+#include "cli/scenario_input.hpp"
 #include "render/fields_file.hpp"
 #include "render/frame_recorder.hpp"
 
@@ -56,13 +56,9 @@ int render_command(const RenderOptions& o) {
                   << ": not found; the run saved no fields (output.fields_every = 0), so there is nothing to draw\n";
         return 2;
     }
-    Scenario scenario;
-    try {
-        scenario = load_scenario(resolved.string());
-    } catch (const ScenarioError& e) {
-        for (const Diagnostic& d : e.diagnostics()) std::cerr << d.to_string() << "\n";
-        return 2;
-    }
+    const auto loaded = load_or_report(resolved.string());
+    if (!loaded) return 2;
+    const Scenario& scenario = *loaded;
     const bool video = !o.video.empty();
     if (video && !ffmpeg_installed()) {
         std::cerr << "error: --video needs ffmpeg, which is not installed (apt-get install ffmpeg); "

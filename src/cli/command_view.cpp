@@ -3,7 +3,7 @@
 #include <iostream>
 
 #include "cli/render_commands.hpp"
-#include "io/scenario_loader.hpp"
+#include "cli/scenario_input.hpp"
 #include "render/viewer.hpp"
 
 namespace tessera::cli {
@@ -14,13 +14,8 @@ int view_command(const ViewOptions& o) {
         std::cerr << "error: --view " << o.view << ": unknown view; accepted: " << view_names() << "\n";
         return 2;
     }
-    Scenario scenario;
-    try {
-        scenario = load_scenario(o.scenario, o.sets);
-    } catch (const ScenarioError& e) {
-        for (const Diagnostic& d : e.diagnostics()) std::cerr << d.to_string() << "\n";
-        return 2;
-    }
+    const auto loaded = load_or_report(o.scenario, o.sets);
+    if (!loaded) return 2;
     ViewerOptions options;
     if (!o.record.empty()) {
         options.record_dir = o.record;
@@ -29,7 +24,7 @@ int view_command(const ViewOptions& o) {
     options.script = o.script;
     options.frames = o.frames;
     options.view = *view;
-    return run_viewer(scenario, options);
+    return run_viewer(*loaded, options);
 }
 
 }  // namespace tessera::cli
