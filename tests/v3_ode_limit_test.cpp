@@ -69,14 +69,10 @@ Scenario lattice_scenario(double K, TransferForm form, TransferCopies copies, st
     s.until = 3.0;
     // Different traits in different places, so that migration and conjugation both matter.
     auto put = [&](int x0, int y0, double x, double y, double frac, double dormant_frac) {
-        Inoculum in;
+        Inoculum in = validation::inoculum(x, y, frac * K, dormant_frac * K);
         in.where = Inoculum::Where::patch;
         in.x0 = x0;
         in.y0 = y0;
-        in.dormancy = x;
-        in.transfer = y;
-        in.active = frac * K;
-        in.dormant = dormant_frac * K;
         s.inocula.push_back(in);
     };
     put(0, 0, 0, 0, 1.0, 0.0);

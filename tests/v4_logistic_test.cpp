@@ -77,14 +77,8 @@ TEST_CASE("V4 logistic growth follows the Verhulst solution", "[validation][V4]"
     }
 
     const std::uint32_t R = 8;
-    std::vector<std::vector<double>> seen(times.size(), std::vector<double>(R));
-    for_replicates(R, [&](std::uint32_t rep) {
-        Engine engine(s, rep);
-        for (std::size_t k = 0; k < times.size(); ++k) {
-            engine.advance_to(times[k]);
-            seen[k][rep] = static_cast<double>(engine.lattice().active(0)[0]);
-        }
-    });
+    const auto seen = observe_at_times(
+        s, times, R, [](const Engine& engine) { return static_cast<double>(engine.lattice().active(0)[0]); });
 
     for (std::size_t k = 0; k < times.size(); ++k) {
         double mean = 0;

@@ -89,14 +89,9 @@ TEST_CASE("V5 donor fraction under conjugation follows the SI closed form", "[va
     }
 
     const std::uint32_t R = 6;
-    std::vector<std::vector<double>> seen(times.size(), std::vector<double>(R));
-    for_replicates(R, [&](std::uint32_t rep) {
-        Engine engine(s, rep);
-        for (std::size_t k = 0; k < times.size(); ++k) {
-            engine.advance_to(times[k]);
-            const std::int64_t* a = engine.lattice().active(0);
-            seen[k][rep] = static_cast<double>(a[1]) / static_cast<double>(a[0] + a[1]);
-        }
+    const auto seen = observe_at_times(s, times, R, [](const Engine& engine) {
+        const std::int64_t* a = engine.lattice().active(0);
+        return static_cast<double>(a[1]) / static_cast<double>(a[0] + a[1]);
     });
 
     for (std::size_t k = 0; k < times.size(); ++k) {

@@ -22,6 +22,7 @@
 
 #include <boost/math/distributions/chi_squared.hpp>
 
+#include "core/engine.hpp"
 #include "core/exact_patch.hpp"
 #include "core/rate_table.hpp"
 #include "core/rng.hpp"
@@ -123,6 +124,22 @@ struct PatchRun {
 // slot of the caller's output, so the result is the same for any thread count.
 inline void for_replicates(std::uint32_t n, const std::function<void(std::uint32_t)>& body) {
     tbb::parallel_for(std::uint32_t{0}, n, [&](std::uint32_t r) { body(r); });
+}
+
+// What `observe(engine)` reads from a whole Engine run of each replicate of `s` at each of
+// `times` (increasing): seen[time][replicate], the same for any thread count.
+template <class Observe>
+std::vector<std::vector<double>> observe_at_times(const Scenario& s, const std::vector<double>& times,
+                                                  std::uint32_t replicates, const Observe& observe) {
+    std::vector<std::vector<double>> seen(times.size(), std::vector<double>(replicates));
+    for_replicates(replicates, [&](std::uint32_t rep) {
+        Engine engine(s, rep);
+        for (std::size_t k = 0; k < times.size(); ++k) {
+            engine.advance_to(times[k]);
+            seen[k][rep] = observe(engine);
+        }
+    });
+    return seen;
 }
 
 // Pearson's chi-squared goodness of fit of observed counts against expected probabilities.
