@@ -24,7 +24,16 @@ void draw_trait_plot(sf::Image& image, Typeface& font, int x, int y, int w, int 
     fill_rect(image, x, y, w, h, to_sf(panel_colour));
     const unsigned size = 11;
     const int line = font.line_height(size);
-    font.draw(image, x + 8, y + 4, "Lattice-wide exponent log(1+N)/log K of each trait", 12, to_sf(text_colour));
+    // The title in as many words as fit beside the axis name ("t / ln K", top right).
+    const std::string axis = "t / ln K";
+    const int title_room = w - 16 - font.width(axis, size) - 12;
+    for (const char* title : {"Lattice-wide exponent log(1+N)/log K of each trait", "Exponent log(1+N)/log K of each trait",
+                              "Exponent of each trait", "Exponents"}) {
+        if (font.width(title, 12) <= title_room) {
+            font.draw(image, x + 8, y + 4, title, 12, to_sf(text_colour));
+            break;
+        }
+    }
     const int left = x + 36, top = y + 8 + line + 6, right = x + w - 12, bottom = y + h - line - 10;
     if (right - left < 20 || bottom - top < 20) return;
 
@@ -42,13 +51,16 @@ void draw_trait_plot(sf::Image& image, Typeface& font, int x, int y, int w, int 
         fill_rect(image, left, py(e), right - left, 1, to_sf(e == 1.0 ? Rgb8{90, 92, 104} : Rgb8{52, 54, 64}));
         font.draw(image, x + 6, py(e) - line / 2, label(e), size, to_sf(muted_text_colour));
     }
-    for (int q = 0; q <= 4; ++q) {
-        const double t = x_max * q / 4.0;
-        const std::string s = label(std::round(t * 100.0) / 100.0);
-        font.draw(image, std::min(px(t) - font.width(s, size) / 2, right - font.width(s, size)), bottom + 3, s, size,
-                  to_sf(muted_text_colour));
+    // A plot too narrow for five time labels side by side gets three (halves of the run).
+    auto tick = [&](int q) { return label(std::round(x_max * q / 4.0 * 100.0) / 100.0); };
+    int widest = 0;
+    for (int q = 0; q <= 4; ++q) widest = std::max(widest, font.width(tick(q), size));
+    const int step = right - left >= 4 * (widest + 8) ? 1 : 2;
+    for (int q = 0; q <= 4; q += step) {
+        const std::string s = tick(q);
+        font.draw(image, std::min(px(x_max * q / 4.0) - font.width(s, size) / 2, right - font.width(s, size)), bottom + 3, s,
+                  size, to_sf(muted_text_colour));
     }
-    const std::string axis = "t / ln K";
     font.draw(image, right - font.width(axis, size), y + 4 + 2, axis, size, to_sf(muted_text_colour));
 
     // One line per trait; extinct stretches (exponent 0) lie on the axis.

@@ -28,6 +28,14 @@ namespace {
 constexpr int panel_w = 300;
 constexpr int bottom_h = 230;
 constexpr int pad = 10;
+// The window opens at this size and can be made larger or smaller, down to the smallest
+// size at which the side panel still holds the title lines and the trait legend, the plot
+// and the patch inspector still fit below the lattice, and the help box fits inside.
+constexpr unsigned start_w = 1280, start_h = 860;
+constexpr unsigned min_w = viewer_min_width, min_h = viewer_min_height;
+// The patch inspector needs this much width for its labels, a bar and its numbers; the
+// plot beside it gets the rest.
+constexpr int inspector_min_w = 300;
 
 const char* const help_lines[] = {
     "Keys",
@@ -84,6 +92,7 @@ public:
 
 private:
     void handle_key(sf::Keyboard::Key key);
+    void fit_window(sf::RenderWindow& window, unsigned w, unsigned h);
     void select(int col, int row);
     void compose(unsigned W, unsigned H);
     void draw_panel(int x, int W, int H);
@@ -106,6 +115,7 @@ private:
     bool recording_ = false;
     int screenshots_ = 0;
     sf::Image canvas_;
+    sf::Vector2u layout_{start_w, start_h};  // the size the window is laid out for (canvas_)
     LatticePlace place_;
     std::string message_;  // last action, shown in the panel
 };
@@ -143,6 +153,22 @@ void Viewer::handle_key(sf::Keyboard::Key key) {
     }
 }
 
+// What happens when the window's size changes, whichever way it changed: a person dragging
+// its border, the window manager, or the script (resize=W,H). The view maps one unit to one
+// pixel of the window as it is now, so the canvas is never stretched; the next compose lays
+// out lattice, plot and panel for the new size. Below the smallest size the window is asked
+// back up to it; until it gets there (or if the window manager refuses) the canvas keeps the
+// smallest layout and the window shows its top left part, unstretched.
+void Viewer::fit_window(sf::RenderWindow& window, unsigned w, unsigned h) {
+    w = std::max(w, 1u);
+    h = std::max(h, 1u);
+    window.setView(sf::View(sf::FloatRect(0.f, 0.f, static_cast<float>(w), static_cast<float>(h))));
+    const unsigned largest = sf::Texture::getMaximumSize();
+    const sf::Vector2u wanted(std::clamp(w, min_w, std::max(largest, min_w)), std::clamp(h, min_h, std::max(largest, min_h)));
+    if (wanted.x > w || wanted.y > h) window.setSize(wanted);
+    layout_ = wanted;
+}
+
 void Viewer::toggle_recording() {
     if (recording_) {
         recording_ = false;
@@ -175,13 +201,14 @@ void Viewer::draw_panel(int x, int W, int H) {
     fill_rect(canvas_, x, 0, W - x, H, to_sf(panel_colour));
     const int tx = x + pad, tw = W - x - 2 * pad;
     int y = pad;
-    auto line = [&](const std::string& s, unsigned size, Rgb8 colour) {
+    // A line too long for the panel (a long title, a message naming a long path) is cut
+    // short with "..." rather than running off the window.
+    auto line = [&](std::string s, unsigned size, Rgb8 colour) {
+        while (s.size() > 4 && font_.width(s, size) > tw) s = s.substr(0, s.size() - 4) + "...";
         font_.draw(canvas_, tx, y, s, size, to_sf(colour));
         y += font_.line_height(size) + 3;
     };
-    std::string title = scenario_.title.empty() ? "tessera" : scenario_.title;
-    while (title.size() > 4 && font_.width(title, 13) > tw) title = title.substr(0, title.size() - 4) + "...";
-    line(title, 13, text_colour);
+    line(scenario_.title.empty() ? "tessera" : scenario_.title, 13, text_colour);
     line(time_stamp(snapshot_.t, snapshot_.t_logK) + (worker_.finished() ? "  (end)" : ""), 13, text_colour);
     line(format("K = %g", scenario_.K) + "   method " + name_of(scenario_.method) +
              "   seed " + std::to_string(worker_.seed()), 11, muted_text_colour);
@@ -233,7 +260,10 @@ void Viewer::compose(unsigned W, unsigned H) {
     }
     const int panel_x = static_cast<int>(W) - panel_w;
     const int bottom_y = static_cast<int>(H) - bottom_h;
-    const int plot_w = selected_ ? (panel_x - 2 * pad) * 3 / 5 : panel_x - 2 * pad;
+    // With a patch selected the plot takes three fifths of the width below the lattice and
+    // the inspector the rest, but never less than it needs for its numbers.
+    const int below_w = panel_x - 2 * pad;
+    const int plot_w = selected_ ? std::min(below_w * 3 / 5, below_w - pad - inspector_min_w) : below_w;
     draw_trait_plot(canvas_, font_, pad, bottom_y, plot_w, bottom_h - pad, history_, scenario_.until * (scenario_.time_unit == TimeUnit::logK ? 1.0 : 1.0 / std::log(scenario_.K)), palette_);
     if (selected_) {
         draw_patch_inspector(canvas_, font_, 2 * pad + plot_w, bottom_y, panel_x - 3 * pad - plot_w, bottom_h - pad,
@@ -259,7 +289,7 @@ int Viewer::run() {
                      "use 'tessera run' with output.frames_every, or 'xvfb-run -a tessera view ...'\n";
         return 1;
     }
-    sf::RenderWindow window(sf::VideoMode(1280, 860), "tessera view: " + scenario_.title);
+    sf::RenderWindow window(sf::VideoMode(start_w, start_h), "tessera view: " + scenario_.title);
     window.setFramerateLimit(30);
     sf::Texture texture;
     std::size_t next_step = 0;
@@ -271,15 +301,14 @@ int Viewer::run() {
         sf::Event event;
         while (window.pollEvent(event)) {
             if (event.type == sf::Event::Closed) window.close();
-            if (event.type == sf::Event::Resized) {
-                window.setView(sf::View(sf::FloatRect(0, 0, static_cast<float>(event.size.width), static_cast<float>(event.size.height))));
-            }
+            if (event.type == sf::Event::Resized) fit_window(window, event.size.width, event.size.height);
             if (event.type == sf::Event::KeyPressed) {
                 if (event.key.code == sf::Keyboard::Escape || event.key.code == sf::Keyboard::Q) window.close();
                 else handle_key(event.key.code);
             }
             if (event.type == sf::Event::MouseButtonPressed && event.mouseButton.button == sf::Mouse::Left) {
-                const int mx = event.mouseButton.x - place_.x, my = event.mouseButton.y - place_.y;
+                const sf::Vector2f at = window.mapPixelToCoords({event.mouseButton.x, event.mouseButton.y});
+                const int mx = static_cast<int>(std::floor(at.x)) - place_.x, my = static_cast<int>(std::floor(at.y)) - place_.y;
                 if (mx >= 0 && my >= 0) select(mx / place_.scale, my / place_.scale);
             }
         }
@@ -297,6 +326,14 @@ int Viewer::run() {
                     else handle_key(s.key);
                     break;
                 case ScriptStep::Kind::click: select(s.col, s.row); break;
+                case ScriptStep::Kind::resize:
+                    // As a drag would: the window takes the new size, then the same handler
+                    // as for the Resized event runs now, so that the very next frame (and
+                    // screenshot) is laid out for it. The Resized events that follow run
+                    // it again with the same sizes and change nothing more.
+                    window.setSize({s.width, s.height});
+                    fit_window(window, s.width, s.height);
+                    break;
                 case ScriptStep::Kind::screenshot: screenshot(s.file); break;
                 case ScriptStep::Kind::quit: window.close(); break;
             }
@@ -306,7 +343,7 @@ int Viewer::run() {
         const std::uint64_t v = worker_.fetch(version_, snapshot_, history_);
         if (v != version_ && recording_) recorder_->write(snapshot_);
         version_ = v;
-        const sf::Vector2u size = window.getSize();
+        const sf::Vector2u size = layout_;
         compose(size.x, size.y);
         // --record: start once the lattice has been placed, so the frames get the window's scale.
         if (start_recording) {

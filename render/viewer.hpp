@@ -20,6 +20,10 @@ struct ViewerOptions {
     FieldView view = FieldView::dominant_trait;
 };
 
+// The window opens at 1280 x 860 pixels and can be resized, larger or down to this size
+// (a smaller size, asked for by a drag, the window manager or the script, stops here).
+inline constexpr unsigned viewer_min_width = 800, viewer_min_height = 560;
+
 // Opens the window and runs until it is closed. Returns the exit code (0; 2 for a bad
 // script; 1 when no window can be opened, with a message).
 int run_viewer(const Scenario& scenario, const ViewerOptions& options);

@@ -1,6 +1,8 @@
 #include "render/viewer_script.hpp"
 
 #include <stdexcept>
+#include <tuple>
+#include <utility>
 
 namespace tessera {
 
@@ -16,6 +18,21 @@ sf::Keyboard::Key key_named(const std::string& name) {
     if (name == "Escape") return sf::Keyboard::Escape;
     if (name == "Period") return sf::Keyboard::Period;
     throw std::invalid_argument("key=" + name + ": unknown key; accepted: A-Z, Space, Plus, Minus, F1, Escape, Period");
+}
+
+// "800,600" -> 800 and 600: two whole numbers of pixels, nothing else.
+std::pair<unsigned, unsigned> window_size(const std::string& value) {
+    const std::string why = "expected resize=W,H, the window's width and height in pixels, each 1 to " +
+                            std::to_string(max_script_window);
+    const std::size_t comma = value.find(',');
+    if (comma == std::string::npos) throw std::invalid_argument(why);
+    auto one = [&](const std::string& part) {
+        if (part.empty() || part.size() > 5 || part.find_first_not_of("0123456789") != std::string::npos) throw std::invalid_argument(why);
+        const unsigned v = static_cast<unsigned>(std::stoul(part));
+        if (v < 1 || v > max_script_window) throw std::invalid_argument(why);
+        return v;
+    };
+    return {one(value.substr(0, comma)), one(value.substr(comma + 1))};
 }
 
 }  // namespace
@@ -44,6 +61,9 @@ std::vector<ScriptStep> parse_viewer_script(const std::string& text) {
                 if (comma == std::string::npos) throw std::invalid_argument("");
                 s.col = std::stoi(value.substr(0, comma));
                 s.row = std::stoi(value.substr(comma + 1));
+            } else if (name == "resize") {
+                s.kind = ScriptStep::Kind::resize;
+                std::tie(s.width, s.height) = window_size(value);
             } else if (name == "screenshot" && !value.empty()) {
                 s.kind = ScriptStep::Kind::screenshot;
                 s.file = value;
@@ -55,7 +75,7 @@ std::vector<ScriptStep> parse_viewer_script(const std::string& text) {
         } catch (const std::invalid_argument& e) {
             const std::string why = e.what();
             throw std::invalid_argument("--script: '" + item + "': " +
-                                        (why.empty() ? "expected frames=N, key=NAME, click=COL,ROW, screenshot=FILE or quit" : why));
+                                        (why.empty() ? "expected frames=N, key=NAME, click=COL,ROW, resize=W,H, screenshot=FILE or quit" : why));
         }
         steps.push_back(s);
     }

@@ -71,7 +71,7 @@ int main(int argc, char** argv) {
     view_cmd->add_option("--view", view.view, "View to start with: trait, dormant, transfer, exponent, habitat, stress");
     view_cmd->add_option("--frames", view.frames, "Close after this many drawn frames (for tests)")->check(CLI::NonNegativeNumber);
     view_cmd->add_option("--script", view.script,
-                         "Scripted input, e.g. \"frames=60;key=V;key=Space;click=3,4;screenshot=out.png;quit\"");
+                         "Scripted input, e.g. \"frames=60;key=V;key=Space;click=3,4;resize=900,640;screenshot=out.png;quit\"");
 
     try {
         app.parse(argc, argv);
