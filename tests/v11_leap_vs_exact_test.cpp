@@ -69,7 +69,7 @@ Samples simulate(const TraitGrid& g, const RateTable& r, std::uint64_t seed, Lea
         for (const LeapStats& s : per_rep) {
             stats->leaps += s.leaps;
             stats->rejected += s.rejected;
-            stats->critical_firings += s.critical_firings;
+            stats->critical_events += s.critical_events;
             stats->exact_stretches += s.exact_stretches;
             stats->exact_events += s.exact_events;
         }
@@ -84,7 +84,7 @@ void compare(const Scenario& s, std::uint64_t seed) {
     const Samples leap = simulate<LeapPatch>(g, r, validation::test_seed(seed), &stats);
     const Samples exact = simulate<ExactPatch>(g, r, validation::test_seed(seed + 1));
     // The leap engine must actually leap here, not hand everything to the exact one.
-    INFO("leaps " << stats.leaps << ", critical firings " << stats.critical_firings << ", exact events "
+    INFO("leaps " << stats.leaps << ", critical firings " << stats.critical_events << ", exact events "
                   << stats.exact_events);
     CHECK(stats.leaps > 100 * N);
     for (std::size_t k = 0; k < times.size(); ++k) {

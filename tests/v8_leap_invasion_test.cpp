@@ -58,7 +58,7 @@ TEST_CASE("V8 a single mutant invades with probability 1 - (d + C n*)/b_m under 
     for (std::uint32_t i = 0; i < N; ++i) {
         p_hat += survived[i];
         leaps += stats[i].leaps;
-        critical += stats[i].critical_firings;
+        critical += stats[i].critical_events;
     }
     p_hat /= N;
     const double p = 1 - (1.0 + 1.0 * 3.0) / 6.0;

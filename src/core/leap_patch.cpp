@@ -25,9 +25,20 @@ LeapPatch::LeapPatch(const TraitGrid& grid, const RateTable& rates, double K, Le
       self_share_(T_, 1.0),
       x_(2 * T_),
       trial_(2 * T_),
+      at_(2 * T_),
+      level_at_(ny_),
       level_cells_(ny_),
       level_gains_(ny_),
       level_rate_(ny_),
+      own_rate_(2 * T_),
+      competition_(T_),
+      all_levels_(ny_, 1),
+      crit_level_(ny_),
+      entry_of_(2 * T_, -1),
+      live_level_(ny_),
+      live_above_all_(ny_ + 1),
+      live_above_crit_(ny_ + 1),
+      level_bounded_(ny_),
       drift_(2 * T_),
       variance_(2 * T_),
       reactant_(2 * T_),
@@ -87,89 +98,134 @@ double LeapPatch::total_rate(const std::int64_t* active, const std::int64_t* dor
            (rates_.dormant_death + rates_.resuscitation * where.resuscitation) * nd;
 }
 
+template <class F>
+void LeapPatch::channels_of(int k, bool own, const std::uint8_t* level_mask, const double* L, F&& f) const {
+    if (k >= T_) {
+        if (own) {
+            f(rates_.dormant_death, true, -1, -1, Kind::dormant_death);
+            f(resus_, true, k - T_, -1, Kind::resuscitation);
+        }
+        return;
+    }
+    const int i = k;
+    if (own) {
+        const double birth = rates_.birth[i];
+        f(birth * self_share_[i], false, i, -1, Kind::birth);
+        for (const Mutant& m : mutants_[i]) f(birth * m.probability, false, m.trait, -1, Kind::mutant_birth);
+        f(rates_.death[i] + stress_, true, -1, -1, Kind::death);
+        const double q = rates_.dormancy_probability[i];
+        f(competition_[i] * (1 - q), true, -1, -1, Kind::competition_death);
+        f(competition_[i] * q, true, T_ + i, -1, Kind::dormancy);
+    }
+    const bool whole = rates_.transfer_copies == TransferCopies::whole;
+    for (int l = grid_.y_level(i) + 1; l < ny_; ++l) {
+        if (!level_mask[l]) continue;
+        f(conj_factor_ * L[l], true, whole ? -1 : grid_.index(grid_.x_level(i), l), l, Kind::conjugation);
+    }
+}
+
+// The totals of at_ every rate depends on: L_l, the competing cells, the conjugation factor.
+void LeapPatch::take_totals() {
+    double na = 0, nd = 0;
+    std::fill(level_at_.begin(), level_at_.end(), 0.0);
+    for (int i = 0; i < T_; ++i) {
+        na += at_[i];
+        nd += at_[T_ + i];
+        level_at_[grid_.y_level(i)] += at_[i];
+    }
+    ncomp_ = rates_.competition_counts_dormant ? na + nd : na;
+    conj_factor_ = !(na > 0) || !(rates_.transfer > 0)
+                       ? 0.0
+                       : (rates_.transfer_form == TransferForm::frequency ? rates_.transfer / na
+                                                                          : rates_.transfer * inv_Kp_);
+    for (int i = 0; i < T_; ++i) competition_[i] = rates_.competition[i] * ncomp_ * inv_Kp_;
+}
+
 void LeapPatch::build_channels() {
     channels_.clear();
-    std::int64_t na = 0, nd = 0;
+    exact_entries_.clear();
     std::fill(level_cells_.begin(), level_cells_.end(), 0);
-    for (int i = 0; i < T_; ++i) {
-        na += x_[i];
-        nd += x_[T_ + i];
-        level_cells_[grid_.y_level(i)] += x_[i];
-    }
-    const double ncomp = static_cast<double>(rates_.competition_counts_dormant ? na + nd : na);
-    const double conj_factor =
-        na == 0 ? 0.0
-                : (rates_.transfer_form == TransferForm::frequency ? rates_.transfer / static_cast<double>(na)
-                                                                   : rates_.transfer * inv_Kp_);
-    a0_ = critical_rate_ = 0.0;
-    any_noncritical_ = false;
-    auto add = [&](double rate, int reactant, int consume, int produce, int level, Kind kind) {
-        if (!(rate > 0)) return;  // a channel that cannot fire costs no draw
-        const bool critical = x_[reactant] < settings_.critical_cells;
-        channels_.push_back({rate, reactant, consume, produce, level, kind, critical});
-        a0_ += rate;
-        if (critical) {
-            critical_rate_ += rate;
+    for (int i = 0; i < T_; ++i) level_cells_[grid_.y_level(i)] += x_[i];
+    for (int l = 0; l < ny_; ++l) crit_level_[l] = level_cells_[l] < settings_.critical_cells;
+    take_totals();
+    a0_ = 0.0;
+    for (int k = 0; k < 2 * T_; ++k) {
+        const double cells = at_[k];
+        const bool small = x_[k] < settings_.critical_cells;
+        double own = 0.0;
+        bool exact_conjugation = false;
+        channels_of(k, true, all_levels_.data(), level_at_.data(),
+                    [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
+                        const double rate = per_cell * cells;
+                        if (level < 0) own += per_cell;
+                        if (small || (level >= 0 && crit_level_[level])) {
+                            // Exact: a small species' every channel, even while empty (offspring
+                            // may arrive); a large one's conjugations into levels with few donors.
+                            a0_ += rate;
+                            exact_conjugation = exact_conjugation || level >= 0;
+                            return;
+                        }
+                        if (!(rate > 0)) return;  // a channel that cannot fire costs no draw
+                        a0_ += rate;
+                        channels_.push_back({rate, per_cell, k, consumes ? k : -1, produce, level, kind});
+                    });
+        own_rate_[k] = own;
+        const int level = k < T_ ? grid_.y_level(k) : -1;
+        if (small) {
+            entry_of_[k] = static_cast<std::int32_t>(exact_entries_.size());
+            exact_entries_.push_back({k, level, true, own});
+        } else if (exact_conjugation) {
+            entry_of_[k] = static_cast<std::int32_t>(exact_entries_.size());
+            exact_entries_.push_back({k, level, false, 0.0});
         } else {
-            any_noncritical_ = true;
+            entry_of_[k] = -1;
         }
-    };
-    for (int i = 0; i < T_; ++i) {
-        if (x_[i] == 0) continue;
-        const double a = static_cast<double>(x_[i]);
-        const double birth = rates_.birth[i] * a;
-        add(birth * self_share_[i], i, -1, i, 0, Kind::birth);
-        for (const Mutant& m : mutants_[i]) add(birth * m.probability, i, -1, m.trait, 0, Kind::mutant_birth);
-        add((rates_.death[i] + stress_) * a, i, i, -1, 0, Kind::death);
-        const double competition = rates_.competition[i] * ncomp * inv_Kp_ * a;
-        const double q = rates_.dormancy_probability[i];
-        add(competition * (1 - q), i, i, -1, 0, Kind::competition_death);
-        add(competition * q, i, i, T_ + i, 0, Kind::dormancy);
-        const int y = grid_.y_level(i);
-        for (int l = y + 1; l < ny_; ++l) {
-            if (level_cells_[l] == 0) continue;
-            const int produce =
-                rates_.transfer_copies == TransferCopies::whole ? -1 : grid_.index(grid_.x_level(i), l);
-            add(conj_factor * a * static_cast<double>(level_cells_[l]), i, i, produce, l, Kind::conjugation);
-        }
-    }
-    for (int i = 0; i < T_; ++i) {
-        if (x_[T_ + i] == 0) continue;
-        const double z = static_cast<double>(x_[T_ + i]);
-        add(rates_.dormant_death * z, T_ + i, T_ + i, -1, 0, Kind::dormant_death);
-        add(resus_ * z, T_ + i, T_ + i, i, 0, Kind::resuscitation);
     }
 }
 
 // CGP 2006, eqs. (32)-(33): with mu_k and sigma_k^2 the mean and variance of the change of
-// species k per unit time from the non-critical channels, the step keeps every reactant
-// species' expected change and standard deviation within max(eps x_k / g_k, 1). The bound
-// depends only on the species, so it is taken once per reactant species (18 with 9 traits),
-// not once per channel (~60): the same tau for a third of the divisions.
+// species k per unit time, the step keeps the expected change and standard deviation of
+// every count a leaped rate is proportional to within max(eps x_k / g_k, 1): each leaped
+// channel's own cells, and the totals its rate also depends on (the donor level L_l of a
+// conjugation, the patch's active total through competition and frequency-dependent
+// transfer). Small species are simulated exactly, so they bound the step only through those
+// totals. mu and sigma^2 count every channel, leaped or exact. The bound is taken once per
+// species (18 with 9 traits), not once per channel (~60).
 double LeapPatch::step_size() {
     const std::size_t S = x_.size();
     std::fill_n(drift_.begin(), S, 0.0);
     std::fill_n(variance_.begin(), S, 0.0);
     std::fill_n(reactant_.begin(), S, std::uint8_t{0});
     std::fill(level_rate_.begin(), level_rate_.end(), 0.0);
-    bool whole = false;
+    std::fill(level_bounded_.begin(), level_bounded_.end(), std::uint8_t{0});
+    auto account = [&](double rate, int consume, int produce, int level, Kind kind) {
+        if (consume >= 0) {
+            drift_[consume] -= rate;
+            variance_[consume] += rate;
+        }
+        if (produce >= 0) {
+            drift_[produce] += rate;
+            variance_[produce] += rate;
+        } else if (kind == Kind::conjugation) {
+            level_rate_[level] += rate;
+        }
+    };
     for (const Channel& c : channels_) {
-        if (c.critical) continue;
         reactant_[c.reactant] = 1;
-        if (c.consume >= 0) {
-            drift_[c.consume] -= c.rate;
-            variance_[c.consume] += c.rate;
-        }
-        if (c.produce >= 0) {
-            drift_[c.produce] += c.rate;
-            variance_[c.produce] += c.rate;
-        } else if (c.kind == Kind::conjugation) {
-            level_rate_[c.level] += c.rate;
-            whole = true;
-        }
+        if (c.kind == Kind::conjugation) level_bounded_[c.level] = 1;
+        account(c.rate, c.consume, c.produce, c.level, c.kind);
+    }
+    for (const ExactEntry& e : exact_entries_) {
+        const int k = e.species;
+        const double cells = at_[k];
+        if (!(cells > 0)) continue;
+        channels_of(k, e.small, e.small ? all_levels_.data() : crit_level_.data(), level_at_.data(),
+                    [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
+                        account(per_cell * cells, consumes ? k : -1, produce, level, kind);
+                    });
     }
     // Whole-copy conjugations won by level l go to its traits in proportion to their cells.
-    for (int l = 0; whole && l < ny_; ++l) {
+    for (int l = 0; l < ny_; ++l) {
         if (!(level_rate_[l] > 0)) continue;
         const double per_cell = level_rate_[l] / static_cast<double>(level_cells_[l]);
         for (int xl = 0; xl < nx_; ++xl) {
@@ -179,12 +235,38 @@ double LeapPatch::step_size() {
         }
     }
     double tau = infinity;
+    auto bound_by = [&](double x, double eps_over_g, double mu, double sigma2) {
+        const double bound = std::max(eps_over_g * x, 1.0);
+        if (mu != 0) tau = std::min(tau, bound / std::fabs(mu));
+        if (sigma2 > 0) tau = std::min(tau, bound * bound / sigma2);
+    };
     for (std::size_t k = 0; k < S; ++k) {
-        if (!reactant_[k]) continue;
-        const double bound = std::max(eps_over_g_[k] * static_cast<double>(x_[k]), 1.0);
-        if (drift_[k] != 0) tau = std::min(tau, bound / std::fabs(drift_[k]));
-        if (variance_[k] > 0) tau = std::min(tau, bound * bound / variance_[k]);
+        if (reactant_[k]) bound_by(static_cast<double>(x_[k]), eps_over_g_[k], drift_[k], variance_[k]);
     }
+    // The totals: the active cells of each donor level driving a leaped conjugation, and all
+    // active cells (and dormant ones when they compete). Variances add as if independent.
+    double na = 0, mu_a = 0, var_a = 0, nd = 0, mu_d = 0, var_d = 0;
+    for (int l = 0; l < ny_; ++l) {
+        double L = 0, mu = 0, var = 0;
+        for (int xl = 0; xl < nx_; ++xl) {
+            const int i = grid_.index(xl, l);
+            L += static_cast<double>(x_[i]);
+            mu += drift_[i];
+            var += variance_[i];
+        }
+        if (level_bounded_[l]) bound_by(L, eps_over_g_[0], mu, var);
+        na += L;
+        mu_a += mu;
+        var_a += var;
+    }
+    if (rates_.competition_counts_dormant) {
+        for (int i = 0; i < T_; ++i) {
+            nd += static_cast<double>(x_[T_ + i]);
+            mu_d += drift_[T_ + i];
+            var_d += variance_[T_ + i];
+        }
+    }
+    bound_by(na + nd, eps_over_g_[0], mu_a + mu_d, var_a + var_d);
     return tau;
 }
 
@@ -202,17 +284,180 @@ void LeapPatch::tally(Kind kind, std::int64_t k, EventCounts& c) const {
     }
 }
 
-bool LeapPatch::try_leap(double tau, int fire, Rng& rng, EventCounts& tally_out) {
+// Gillespie (2001), "Approximate accelerated stochastic simulation of chemically reacting
+// systems", J. Chem. Phys. 115:1716, the estimated-midpoint technique: every rate is taken
+// at the state the drift reaches after half the leap. Its error in the mean is O(tau^2)
+// instead of the explicit leap's O(tau) in the large-population scaling (Anderson, Ganguly
+// & Kurtz 2011, "Error analysis of tau-leap simulation methods", Ann. Appl. Probab.
+// 21:2226), for the price of one more evaluation of the rates and no extra draws.
+// Only the rates change there (which channels exist and which are exact stays as at the
+// start): each leaped channel's rate per cell is constant, proportional to the competing
+// cells, or the conjugation factor times its donor level.
+void LeapPatch::set_midpoint(double tau) {
+    for (std::size_t k = 0; k < x_.size(); ++k) {
+        at_[k] = std::max(0.0, static_cast<double>(x_[k]) + 0.5 * tau * drift_[k]);
+    }
+    const double ncomp_start = ncomp_;
+    take_totals();
+    const double competition_ratio = ncomp_start > 0 ? ncomp_ / ncomp_start : 0.0;
+    for (Channel& c : channels_) {
+        double per_cell = c.per_cell;
+        if (c.kind == Kind::competition_death || c.kind == Kind::dormancy) per_cell *= competition_ratio;
+        if (c.kind == Kind::conjugation) per_cell = conj_factor_ * level_at_[c.level];
+        c.rate = per_cell * at_[c.reactant];
+    }
+    for (ExactEntry& e : exact_entries_) {
+        if (!e.small) continue;
+        const int k = e.species;
+        // The sum of its own channels' rates per cell (births with and without mutation add
+        // up to the birth rate; competition deaths and dormancy to the competition rate).
+        e.own_rate = k < T_ ? rates_.birth[k] + rates_.death[k] + stress_ + competition_[k]
+                            : rates_.dormant_death + resus_;
+    }
+}
+
+// A donor trait of transfer level `level` for one whole-copy conjugation of the exact part,
+// in proportion to the active cells there now.
+int LeapPatch::donor_of_level(int level, Rng& rng) const {
+    std::int64_t cells = 0;
+    for (int xl = 0; xl < nx_; ++xl) cells += trial_[grid_.index(xl, level)];
+    auto u = static_cast<std::int64_t>(rng.below(static_cast<std::uint64_t>(cells)));
+    int donor = grid_.index(nx_ - 1, level);
+    for (int xl = 0; xl < nx_; ++xl) {
+        const int i = grid_.index(xl, level);
+        if (u < trial_[i]) {
+            donor = i;
+            break;
+        }
+        u -= trial_[i];
+    }
+    return donor;
+}
+
+// A level with few donors follows its cells as they change; the others stay at the
+// midpoint, as for the leaped channels.
+void LeapPatch::change(int species, std::int64_t by) {
+    trial_[species] += by;
+    if (species < T_ && crit_level_[grid_.y_level(species)]) {
+        live_level_[grid_.y_level(species)] += static_cast<double>(by);
+    }
+}
+
+// Cells a leaped channel produces: added now to a large species; to a small one at uniform
+// times of the leap, so that they divide, convert and die from the moment they appear.
+void LeapPatch::add_cells(int species, std::int64_t n, double tau, Rng& rng) {
+    if (x_[species] >= settings_.critical_cells || exact_entries_.empty()) {
+        trial_[species] += n;
+        return;
+    }
+    for (std::int64_t j = 0; j < n; ++j) arrivals_.push_back({rng.uniform() * tau, species});
+}
+
+double LeapPatch::exact_rate(const ExactEntry& e) const {
+    if (e.level < 0) return e.own_rate * static_cast<double>(trial_[e.species]);
+    const double donors = e.small ? live_above_all_[e.level + 1] : live_above_crit_[e.level + 1];
+    // A large species' conjugations use its count at the midpoint, like its leaped channels.
+    const double cells = e.small ? static_cast<double>(trial_[e.species]) : at_[e.species];
+    return (e.own_rate + conj_factor_ * donors) * cells;
+}
+
+void LeapPatch::refresh_level_sums() {
+    live_above_all_[ny_] = live_above_crit_[ny_] = 0.0;
+    for (int l = ny_ - 1; l >= 0; --l) {
+        live_above_all_[l] = live_above_all_[l + 1] + live_level_[l];
+        live_above_crit_[l] = live_above_crit_[l + 1] + (crit_level_[l] ? live_level_[l] : 0.0);
+    }
+}
+
+// After species k changed: its own rate, and every rate when a level with few donors moved.
+void LeapPatch::refresh_after_change(int k) {
+    if (k < T_ && crit_level_[grid_.y_level(k)]) {
+        refresh_level_sums();
+        for (std::size_t j = 0; j < exact_entries_.size(); ++j) entry_rate_[j] = exact_rate(exact_entries_[j]);
+    } else if (entry_of_[k] >= 0) {
+        entry_rate_[entry_of_[k]] = exact_rate(exact_entries_[entry_of_[k]]);
+    }
+}
+
+// The exact channels over [0, tau): a direct-method simulation (Gillespie 1977) whose rates
+// follow the small species and the donor levels with few cells as they change, the patch
+// totals held at the leap's midpoint as for the leaped channels, with the arrivals merged in
+// time order (the waiting time is redrawn after each, which the exponential's lack of memory
+// allows). Each event consumes a cell of a species that has one, so no count goes negative
+// here.
+std::uint64_t LeapPatch::simulate_exact(double tau, Rng& rng, EventCounts& tally_out) {
+    std::sort(arrivals_.begin(), arrivals_.end());
+    for (int l = 0; l < ny_; ++l) live_level_[l] = crit_level_[l] ? static_cast<double>(level_cells_[l]) : level_at_[l];
+    refresh_level_sums();
+    entry_rate_.resize(exact_entries_.size());
+    for (std::size_t j = 0; j < exact_entries_.size(); ++j) entry_rate_[j] = exact_rate(exact_entries_[j]);
+    std::size_t next_arrival = 0;
+    std::uint64_t events = 0;
+    double t = 0.0;
+    for (;;) {
+        double total = 0.0;
+        for (double r : entry_rate_) total += r;
+        const double next_event = total > 0 ? t + rng.exponential() / total : infinity;
+        const double arrival = next_arrival < arrivals_.size() ? arrivals_[next_arrival].time : infinity;
+        if (arrival < next_event && arrival < tau) {
+            const int k = arrivals_[next_arrival++].species;
+            change(k, +1);
+            refresh_after_change(k);
+            t = arrival;
+            continue;
+        }
+        if (next_event >= tau) break;
+        t = next_event;
+        double u = rng.uniform() * total;
+        std::size_t pick = 0;
+        for (std::size_t j = 0; j < exact_entries_.size(); ++j) {
+            if (entry_rate_[j] > 0) pick = j;  // the last firable one takes rounding residue
+            if (u < entry_rate_[j]) break;
+            u -= entry_rate_[j];
+        }
+        const ExactEntry& e = exact_entries_[pick];
+        const int k = e.species;
+        // Which of its channels: u is now below its rate; walk them in rate per cell.
+        const double cells = e.small ? static_cast<double>(trial_[k]) : at_[k];
+        double v = std::min(u, entry_rate_[pick]) / cells;
+        int changed[2] = {-1, -1};
+        channels_of(k, e.small, e.small ? all_levels_.data() : crit_level_.data(), live_level_.data(),
+                    [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
+                        if (changed[0] >= 0 || changed[1] >= 0 || !(per_cell > 0)) return;
+                        if (v >= per_cell) {
+                            v -= per_cell;
+                            return;
+                        }
+                        if (consumes) changed[0] = k;
+                        if (produce >= 0) {
+                            changed[1] = produce;
+                        } else if (kind == Kind::conjugation) {
+                            changed[1] = donor_of_level(level, rng);
+                        }
+                        tally(kind, 1, tally_out);
+                    });
+        if (changed[0] < 0 && changed[1] < 0) continue;  // rounding left v past the last channel
+        if (changed[0] >= 0) change(changed[0], -1);
+        if (changed[1] >= 0) change(changed[1], +1);
+        for (int c : changed) {
+            if (c >= 0) refresh_after_change(c);
+        }
+        ++events;
+    }
+    return events;
+}
+
+bool LeapPatch::try_leap(double tau, Rng& rng, EventCounts& tally_out, std::uint64_t& exact_events) {
     trial_ = x_;
+    arrivals_.clear();
     std::fill(level_gains_.begin(), level_gains_.end(), 0);
     EventCounts t;
-    for (std::size_t idx = 0; idx < channels_.size(); ++idx) {
-        const Channel& c = channels_[idx];
-        const std::int64_t k = c.critical ? (static_cast<int>(idx) == fire ? 1 : 0) : poisson(rng, c.rate * tau);
+    for (const Channel& c : channels_) {
+        const std::int64_t k = poisson(rng, c.rate * tau);
         if (k == 0) continue;
         if (c.consume >= 0) trial_[c.consume] -= k;
         if (c.produce >= 0) {
-            trial_[c.produce] += k;
+            add_cells(c.produce, k, tau, rng);
         } else if (c.kind == Kind::conjugation) {
             level_gains_[c.level] += k;
         }
@@ -229,18 +474,22 @@ bool LeapPatch::try_leap(double tau, int fire, Rng& rng, EventCounts& tally_out)
             const std::int64_t n =
                 x_[i] == cells ? gains
                                : binomial(rng, gains, static_cast<double>(x_[i]) / static_cast<double>(cells));
-            trial_[i] += n;
+            add_cells(i, n, tau, rng);
             gains -= n;
             cells -= x_[i];
         }
     }
     for (std::int64_t v : trial_) {
+        if (v < 0) return false;  // before the exact part, whose rates need counts >= 0
+    }
+    const std::uint64_t exact = exact_entries_.empty() ? 0 : simulate_exact(tau, rng, t);
+    for (std::int64_t v : trial_) {
         if (v < 0) return false;
     }
     tally_out = t;
+    exact_events = exact;
     return true;
 }
-
 std::uint64_t LeapPatch::advance(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where,
                                  double duration, Rng& rng, EventCounts& counts) {
     const double Kp = K_ * where.capacity;
@@ -252,38 +501,24 @@ std::uint64_t LeapPatch::advance(std::int64_t* active, std::int64_t* dormant, co
     std::uint64_t events = 0;
     double t = 0.0;
     while (t < duration) {
+        std::copy(x_.begin(), x_.end(), at_.begin());
         build_channels();
         if (!(a0_ > 0)) break;
         const double remaining = duration - t;
-        double tau1 = any_noncritical_ ? step_size() : infinity;
+        double tau1 = channels_.empty() ? 0.0 : step_size();
         const double too_short = settings_.exact_below / a0_;
         bool leapt = false;
-        while (any_noncritical_ && tau1 >= too_short) {
-            // CGP 2005, steps 4-5: the next critical event against the leap of the rest.
-            const double tau2 = critical_rate_ > 0 ? rng.exponential() / critical_rate_ : infinity;
-            double tau = tau1;
-            int fire = -1;
-            if (tau2 <= tau1) {
-                tau = tau2;
-                double u = rng.uniform() * critical_rate_;
-                for (std::size_t idx = 0; idx < channels_.size(); ++idx) {
-                    if (!channels_[idx].critical) continue;
-                    fire = static_cast<int>(idx);  // the last critical one takes rounding residue
-                    if (u < channels_[idx].rate) break;
-                    u -= channels_[idx].rate;
-                }
-            }
-            if (tau >= remaining) {
-                tau = remaining;  // no critical event falls inside the step
-                fire = -1;
-            }
+        while (!channels_.empty() && tau1 >= too_short) {
+            const double tau = std::min(tau1, remaining);
+            set_midpoint(tau);
             EventCounts step_counts;
-            if (try_leap(tau, fire, rng, step_counts)) {
+            std::uint64_t critical = 0;
+            if (try_leap(tau, rng, step_counts, critical)) {
                 x_.swap(trial_);
                 counts += step_counts;
                 events += step_counts.events();
                 ++stats_.leaps;
-                if (fire >= 0) ++stats_.critical_firings;
+                stats_.critical_events += critical;
                 t = tau >= remaining ? duration : t + tau;
                 leapt = true;
                 break;

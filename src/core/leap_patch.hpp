@@ -1,8 +1,16 @@
-// The leap engine for one patch: explicit Poisson tau-leaping with the step-size selection
-// of Cao, Gillespie & Petzold (2006), "Efficient step size selection for the tau-leaping
-// simulation method", J. Chem. Phys. 124:044109, and the exact treatment of critical
-// channels of Cao, Gillespie & Petzold (2005), "Avoiding negative populations in explicit
-// Poisson tau-leaping", J. Chem. Phys. 122:054103.
+// The leap engine for one patch: Poisson tau-leaping of the channels of large traits with
+// the step-size selection of Cao, Gillespie & Petzold (2006), "Efficient step size selection
+// for the tau-leaping simulation method", J. Chem. Phys. 124:044109, and Gillespie's
+// estimated-midpoint rates (Gillespie 2001, J. Chem. Phys. 115:1716), whose bias is O(tau^2)
+// where the explicit leap's is O(tau) (Anderson, Ganguly & Kurtz 2011, Ann. Appl. Probab.
+// 21:2226); and an exact simulation, across each whole leap, of the channels of small
+// traits: the partition into slow reactions simulated exactly and fast ones leaped of
+// Puchalka & Kierzek (2004), "Bridging the gap between stochastic and deterministic regimes
+// in the kinetic simulations of the biochemical reaction networks", Biophys. J. 86:1357. It
+// generalises the critical channels of Cao, Gillespie & Petzold (2005), "Avoiding negative
+// populations in explicit Poisson tau-leaping", J. Chem. Phys. 122:054103: there a critical
+// channel fires at most once per leap and cuts the leap short; here it fires as often as an
+// exact simulation says, so small traits no longer shorten the leaps of the large ones.
 //
 // Channels (model.md section 2), each consuming at most one cell and producing at most one:
 //   per trait i: division without mutation, division into each mutation target (Poisson
@@ -15,14 +23,20 @@
 //   all that level's conjugations over its column (a sum of multinomials with the same cell
 //   probabilities is a multinomial); with "transfer_only" the target is (x_j, l) directly.
 //
-// A channel is critical when the cells it acts on (the dividing, dying, converting or
-// receiving trait) number fewer than n_c. Critical channels fire at most once per leap, as
-// the next event of an exact simulation (CGP 2005, step 4), so a trait with 3 cells is
-// still born, mutates and dies one cell at a time; the others fire Poisson numbers of times.
-// A leap that would make any count negative is rejected and retried with half the step. When
-// the step allowed falls below a few mean waiting times (tau < exact_below / a0), or no
-// channel is non-critical, a short stretch of exact simulation (ExactPatch) runs instead, as
-// CGP 2006 (section IV) recommend.
+// A trait with fewer than `critical_cells` cells is small; so is a donor level with fewer.
+// The channels of a small trait, and the conjugations into a small donor level, are exact:
+// over a leap of length tau they run as a direct-method simulation whose rates follow the
+// small counts as they change (the patch totals are held at the leap's midpoint, as for the
+// leaped channels), so a trait of 3 or 150 cells is born, mutates, converts and dies one cell
+// at a time and can never go negative. Cells that the leaped channels place in a small trait
+// (mutants, dormant cells, conjugation recipients) arrive at uniform times inside the leap,
+// so they start dividing and dying at once. The other channels fire Poisson numbers of times
+// at their midpoint rates. tau bounds, by CGP 2006's rule, the relative change of every count
+// a leaped rate is proportional to: the large traits, their donor levels and the patch's
+// active total. A leap that would make a large trait negative is rejected and retried with
+// half the step (CGP 2005). When the step allowed falls below a few mean waiting times
+// (tau < exact_below / a0), or no channel is leaped, a short stretch of exact simulation
+// (ExactPatch) runs instead, as CGP 2006 (section IV) recommend.
 #pragma once
 
 #include <cstdint>
@@ -39,7 +53,11 @@ namespace tessera {
 
 struct LeapSettings {
     double epsilon = 0.03;             // CGP 2006 error control: relative change of propensities
-    std::int64_t critical_cells = 10;  // n_c of CGP 2005
+    // Traits with fewer cells are simulated exactly inside each leap. CGP 2005 use n_c = 10;
+    // a larger threshold takes the traits of tens to hundreds of cells out of the step-size
+    // bound, where CGP 2006's relative-change condition made them the binding ones
+    // (docs/performance.md, "Large populations"), at the price of their own exact events.
+    std::int64_t critical_cells = 200;
     double exact_below = 10.0;         // SSA instead when tau < exact_below / a0 (CGP 2006)
     double exact_events = 100.0;       // expected events of one such SSA stretch
 };
@@ -48,7 +66,7 @@ struct LeapSettings {
 struct LeapStats {
     std::uint64_t leaps = 0;             // accepted leaps
     std::uint64_t rejected = 0;          // leaps retried because a count would go negative
-    std::uint64_t critical_firings = 0;  // leaps that fired one critical channel
+    std::uint64_t critical_events = 0;   // exact events of critical channels inside leaps
     std::uint64_t exact_stretches = 0;   // hand-overs to ExactPatch
     std::uint64_t exact_events = 0;      // events those stretches simulated
 };
@@ -77,24 +95,58 @@ private:
         birth, mutant_birth, death, competition_death, dormancy, dormant_death, resuscitation,
         conjugation
     };
-    // One channel in the current state. Indices are into the species vector x_
+    // A leaped channel in the current state. Indices are into the species vector x_
     // ([A_0..A_{T-1}, D_0..D_{T-1}]); produce < 0 on a "whole" conjugation means "a donor
     // trait of level `level`, drawn in proportion to the active cells there".
     struct Channel {
         double rate;
-        std::int32_t reactant;  // the cells the channel acts on (decides criticality)
-        std::int32_t consume;   // -1: none
+        double per_cell;        // at the leap's start
+        std::int32_t reactant;  // the cells the channel acts on
+        std::int32_t consume;   // -1: none (else the reactant)
         std::int32_t produce;   // -1: none (or a whole-copy donor draw, see above)
         std::int32_t level;     // donor transfer level of a conjugation
         Kind kind;
-        bool critical;
+    };
+    // A species with critical channels, simulated exactly inside the leap. A small species
+    // (fewer than critical_cells, empty ones included, so that offspring arriving during the
+    // leap divide and die at once) has all its channels critical; a large active one only
+    // its conjugations into donor levels with few cells (crit_level_), whose rates move
+    // with those few donors.
+    struct ExactEntry {
+        std::int32_t species;
+        std::int32_t level;  // its transfer level (active), -1 (dormant)
+        bool small;
+        double own_rate;     // per cell, the channels other than conjugation (small only)
+    };
+    // A cell that a leaped channel places in a small species, at a uniform time of the leap.
+    struct Arrival {
+        double time;
+        std::int32_t species;
+        bool operator<(const Arrival& o) const { return time < o.time; }
     };
 
+    // The channels of the state x_ (which exist, which are leaped, which exact), with rates
+    // taken at the state at_: x_ itself, or the leap's estimated midpoint (set_midpoint).
     void build_channels();
-    double step_size();  // tau' of CGP 2006 from the non-critical channels
-    // Fires non-critical channels Poisson(a tau) times and channel `fire` (if >= 0) once,
-    // into trial_; false when some count would go negative (nothing is changed then).
-    bool try_leap(double tau, int fire, Rng& rng, EventCounts& tally);
+    void take_totals();
+    // Calls f(per_cell, consumes, produce, level, kind) for each channel of species k: its
+    // own channels if `own`, and its conjugations into the levels l with level_mask[l],
+    // whose rate per cell is conj_factor_ * L[l].
+    template <class F>
+    void channels_of(int k, bool own, const std::uint8_t* level_mask, const double* L, F&& f) const;
+    // Gillespie's estimated midpoint: at_ = x_ + (tau / 2) * mu, then the rates there.
+    void set_midpoint(double tau);
+    double step_size();  // tau' of CGP 2006
+    // Fires the leaped channels Poisson(a tau) times and runs the exact channels over
+    // [0, tau), into trial_; false when some count would go negative (nothing is changed).
+    bool try_leap(double tau, Rng& rng, EventCounts& tally, std::uint64_t& exact_events);
+    void add_cells(int species, std::int64_t n, double tau, Rng& rng);  // now, or as arrivals
+    std::uint64_t simulate_exact(double tau, Rng& rng, EventCounts& tally);
+    double exact_rate(const ExactEntry& e) const;  // in the live state
+    void refresh_level_sums();
+    void refresh_after_change(int species);
+    void change(int species, std::int64_t by);     // trial_ and live_level_ together
+    int donor_of_level(int level, Rng& rng) const;
     void tally(Kind kind, std::int64_t k, EventCounts& c) const;
 
     const TraitGrid& grid_;
@@ -119,15 +171,29 @@ private:
     // Loaded patch and work space.
     double inv_Kp_ = 0.0, stress_ = 0.0, resus_ = 0.0;
     std::vector<std::int64_t> x_, trial_;
+    std::vector<double> at_;                    // the state the rates are taken at
+    std::vector<double> level_at_;              // L_l of at_
     std::vector<std::int64_t> level_cells_;     // L_l: active cells at transfer level l
     std::vector<std::int64_t> level_gains_;     // whole-copy conjugations won by level l
     std::vector<double> level_rate_;            // non-critical whole-copy rate into level l
     std::vector<Channel> channels_;
+    std::vector<ExactEntry> exact_entries_;
+    std::vector<double> own_rate_;              // per cell, own channels of each species (at at_)
+    std::vector<double> competition_;           // per cell competition rate of each trait (at at_)
+    double ncomp_ = 0.0;                        // the competing cells (at at_)
+    double conj_factor_ = 0.0;                  // conjugation rate per recipient and donor cell
+    std::vector<std::uint8_t> all_levels_;      // mask: every level
+    std::vector<std::uint8_t> crit_level_;      // mask: donor levels with few cells
+    std::vector<std::int32_t> entry_of_;        // species -> its exact entry, or -1
+    std::vector<Arrival> arrivals_;
+    std::vector<double> entry_rate_;            // work space of simulate_exact
+    std::vector<double> live_level_;            // L_l during simulate_exact
+    std::vector<double> live_above_all_, live_above_crit_;  // sums of live_level_ above l
+    std::vector<std::uint8_t> level_bounded_;   // L_l drives a leaped conjugation
     std::vector<double> drift_, variance_;      // mu_k and sigma_k^2 of CGP 2006
     std::vector<std::uint8_t> reactant_;        // species k is a reactant of a non-critical channel
     std::vector<double> eps_over_g_;            // eps / g_k per species
-    double a0_ = 0.0, critical_rate_ = 0.0;
-    bool any_noncritical_ = false;
+    double a0_ = 0.0;
     LeapStats stats_;
 };
 

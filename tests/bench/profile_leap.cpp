@@ -46,7 +46,7 @@ int main(int argc, char** argv) {
     const LeapStats& st = leap.stats();
     std::printf("side=%d K=%g t=%g: per patch-step leaps %.2f rejected %.3f critical %.2f exact stretches %.2f "
                 "exact events %.1f events %.0f\n",
-                side, K, engine.time(), st.leaps / n, st.rejected / n, st.critical_firings / n,
+                side, K, engine.time(), st.leaps / n, st.rejected / n, st.critical_events / n,
                 st.exact_stretches / n, st.exact_events / n, static_cast<double>(events) / n);
     std::printf("patch 0:");
     for (int i = 0; i < T; ++i) std::printf(" %lld/%lld", static_cast<long long>(lat.active(0)[i]),
