@@ -146,7 +146,8 @@ void LeapPatch::build_channels() {
     exact_entries_.clear();
     std::fill(level_cells_.begin(), level_cells_.end(), 0);
     for (int i = 0; i < T_; ++i) level_cells_[grid_.y_level(i)] += x_[i];
-    for (int l = 0; l < ny_; ++l) crit_level_[l] = level_cells_[l] < settings_.critical_cells;
+    // Level 0 is nobody's donor level, so it is never a small one.
+    for (int l = 0; l < ny_; ++l) crit_level_[l] = l > 0 && level_cells_[l] < settings_.critical_cells;
     take_totals();
     a0_ = 0.0;
     for (int k = 0; k < 2 * T_; ++k) {
@@ -369,13 +370,25 @@ void LeapPatch::refresh_level_sums() {
     }
 }
 
-// After species k changed: its own rate, and every rate when a level with few donors moved.
+// After species k changed: its own rate, and every rate when a level with few donors moved;
+// exact_total_ follows.
 void LeapPatch::refresh_after_change(int k) {
     if (k < T_ && crit_level_[grid_.y_level(k)]) {
-        refresh_level_sums();
-        for (std::size_t j = 0; j < exact_entries_.size(); ++j) entry_rate_[j] = exact_rate(exact_entries_[j]);
+        refresh_all_rates();
     } else if (entry_of_[k] >= 0) {
-        entry_rate_[entry_of_[k]] = exact_rate(exact_entries_[entry_of_[k]]);
+        double& rate = entry_rate_[entry_of_[k]];
+        const double now = exact_rate(exact_entries_[entry_of_[k]]);
+        exact_total_ += now - rate;
+        rate = now;
+    }
+}
+
+void LeapPatch::refresh_all_rates() {
+    refresh_level_sums();
+    exact_total_ = 0.0;
+    for (std::size_t j = 0; j < exact_entries_.size(); ++j) {
+        entry_rate_[j] = exact_rate(exact_entries_[j]);
+        exact_total_ += entry_rate_[j];
     }
 }
 
@@ -388,15 +401,20 @@ void LeapPatch::refresh_after_change(int k) {
 std::uint64_t LeapPatch::simulate_exact(double tau, Rng& rng, EventCounts& tally_out) {
     std::sort(arrivals_.begin(), arrivals_.end());
     for (int l = 0; l < ny_; ++l) live_level_[l] = crit_level_[l] ? static_cast<double>(level_cells_[l]) : level_at_[l];
-    refresh_level_sums();
     entry_rate_.resize(exact_entries_.size());
-    for (std::size_t j = 0; j < exact_entries_.size(); ++j) entry_rate_[j] = exact_rate(exact_entries_[j]);
+    refresh_all_rates();
     std::size_t next_arrival = 0;
     std::uint64_t events = 0;
     double t = 0.0;
-    for (;;) {
-        double total = 0.0;
-        for (double r : entry_rate_) total += r;
+    for (int since_sum = 0;; ++since_sum) {
+        // The running total drifts by rounding as rates are swapped in and out: resummed now
+        // and then (and never trusted below zero).
+        if (since_sum == 64 || exact_total_ < 0) {
+            since_sum = 0;
+            exact_total_ = 0.0;
+            for (double r : entry_rate_) exact_total_ += r;
+        }
+        const double total = exact_total_;
         const double next_event = total > 0 ? t + rng.exponential() / total : infinity;
         const double arrival = next_arrival < arrivals_.size() ? arrivals_[next_arrival].time : infinity;
         if (arrival < next_event && arrival < tau) {
