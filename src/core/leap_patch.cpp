@@ -318,10 +318,11 @@ void LeapPatch::set_midpoint(double tau) {
 }
 
 // A donor trait of transfer level `level` for one whole-copy conjugation of the exact part,
-// in proportion to the active cells there now.
+// in proportion to the active cells there now; -1 when there are none.
 int LeapPatch::donor_of_level(int level, Rng& rng) const {
     std::int64_t cells = 0;
     for (int xl = 0; xl < nx_; ++xl) cells += trial_[grid_.index(xl, level)];
+    if (cells <= 0) return -1;  // the level emptied during the leap: nobody to copy from
     auto u = static_cast<std::int64_t>(rng.below(static_cast<std::uint64_t>(cells)));
     int donor = grid_.index(nx_ - 1, level);
     for (int xl = 0; xl < nx_; ++xl) {
@@ -441,20 +442,22 @@ std::uint64_t LeapPatch::simulate_exact(double tau, Rng& rng, EventCounts& tally
         int changed[2] = {-1, -1};
         channels_of(k, e.small, e.small ? all_levels_.data() : crit_level_.data(), live_level_.data(),
                     [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
-                        if (changed[0] >= 0 || changed[1] >= 0 || !(per_cell > 0)) return;
+                        if (changed[0] != -1 || changed[1] != -1 || !(per_cell > 0)) return;
                         if (v >= per_cell) {
                             v -= per_cell;
                             return;
                         }
-                        if (consumes) changed[0] = k;
-                        if (produce >= 0) {
-                            changed[1] = produce;
-                        } else if (kind == Kind::conjugation) {
-                            changed[1] = donor_of_level(level, rng);
+                        const int donor = produce < 0 && kind == Kind::conjugation ? donor_of_level(level, rng) : -1;
+                        if (produce < 0 && kind == Kind::conjugation && donor < 0) {
+                            changed[0] = changed[1] = -2;  // nobody to copy from: no event
+                            return;
                         }
+                        if (consumes) changed[0] = k;
+                        changed[1] = produce >= 0 ? produce : donor;
                         tally(kind, 1, tally_out);
                     });
-        if (changed[0] < 0 && changed[1] < 0) continue;  // rounding left v past the last channel
+        // Rounding left v past the last channel, or the drawn conjugation has no donor left.
+        if (changed[0] < 0 && changed[1] < 0) continue;
         if (changed[0] >= 0) change(changed[0], -1);
         if (changed[1] >= 0) change(changed[1], +1);
         for (int c : changed) {
