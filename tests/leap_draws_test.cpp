@@ -131,3 +131,50 @@ TEST_CASE("Binomial sampler has the right mean and variance at very large n", "[
         CHECK(std::fabs(var - v) <= validation::z_tolerance * std::sqrt((mu4 - v * v) / draws));
     }
 }
+
+// The uniform split of the migration phase (n leavers over 4 or 8 directions): a multinomial
+// with equal cell probabilities. Every count sums to n; the first and the last direction
+// each fit Binomial(n, 1/ways) (chi-squared, as above); two directions have the
+// multinomial's covariance -n / ways^2 (z-test with the sample covariance's standard error
+// from its fourth moments, approximated by sqrt(var_a var_b / draws)). A split that favoured
+// a direction, or packed bits wrongly at a word's end (n = 31, 32, 33 and 20, 21, 22 cross
+// it), fails.
+TEST_CASE("Uniform split fits the equal-probability multinomial", "[leap][draws]") {
+    for (int ways : {4, 8}) {
+        for (std::int64_t items : {1, 5, 20, 21, 22, 31, 32, 33, 100, 1000, 6000}) {
+            Rng rng(StreamKey{validation::test_seed(11), 0, static_cast<std::uint32_t>(ways)},
+                    static_cast<std::uint64_t>(items), Phase::local);
+            const double p = 1.0 / ways;
+            const int kmax = static_cast<int>(std::min<double>(items, items * p + 12 * std::sqrt(items * p) + 20));
+            const std::uint64_t draws = 100000;
+            std::vector<std::uint64_t> first(kmax + 1, 0), last(kmax + 1, 0);
+            double s0 = 0, s1 = 0, s01 = 0;
+            bool sums = true;
+            for (std::uint64_t d = 0; d < draws; ++d) {
+                std::int64_t out[8];
+                split_uniformly(rng, items, ways, out);
+                std::int64_t total = 0;
+                for (int w = 0; w < ways; ++w) total += out[w];
+                sums = sums && total == items;
+                if (out[0] >= 0 && out[0] <= kmax) ++first[out[0]];
+                if (out[ways - 1] >= 0 && out[ways - 1] <= kmax) ++last[out[ways - 1]];
+                s0 += static_cast<double>(out[0]);
+                s1 += static_cast<double>(out[1]);
+                s01 += static_cast<double>(out[0]) * static_cast<double>(out[1]);
+            }
+            INFO(ways << " ways, " << items << " items");
+            CHECK(sums);
+            const auto pmf = binomial_pmf(items, p, kmax);
+            const auto r0 = validation::chi_squared_test(pmf, first, draws, validation::chi_squared_alpha);
+            const auto r1 = validation::chi_squared_test(pmf, last, draws, validation::chi_squared_alpha);
+            INFO("first: " << r0.describe() << "; last: " << r1.describe());
+            CHECK(r0.passed());
+            CHECK(r1.passed());
+            const double n = static_cast<double>(draws);
+            const double cov = s01 / n - (s0 / n) * (s1 / n);
+            const double var = static_cast<double>(items) * p * (1 - p);
+            INFO("covariance " << cov << ", expected " << -static_cast<double>(items) * p * p);
+            CHECK(std::fabs(cov + static_cast<double>(items) * p * p) <= validation::z_tolerance * var / std::sqrt(n));
+        }
+    }
+}

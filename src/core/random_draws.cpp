@@ -128,7 +128,62 @@ std::int64_t binomial_btrs(Rng& rng, std::int64_t n, double p) {
     }
 }
 
+// Set bits of x, without a library call on CPUs built for without a popcount instruction
+// (the generic x86-64 target): the usual SWAR sum of bit counts.
+int ones(std::uint64_t x) {
+    x = x - ((x >> 1) & 0x5555555555555555ull);
+    x = (x & 0x3333333333333333ull) + ((x >> 2) & 0x3333333333333333ull);
+    x = (x + (x >> 4)) & 0x0f0f0f0f0f0f0f0full;
+    return static_cast<int>((x * 0x0101010101010101ull) >> 56);
+}
+
+// Adds to out[v] the number of the `fields` bit fields of `bits` (2 or 3) bits, low ones
+// first, of `word` that hold the value v: from the counts of ones in each bit plane and in
+// their intersections, by inclusion and exclusion.
+void count_fields(std::uint64_t word, int bits, int fields, std::int64_t* out) {
+    // The lowest bit of every field: bits 0, 2, .., 62 or bits 0, 3, .., 60.
+    const std::uint64_t every = bits == 2 ? 0x5555555555555555ull : 0111111111111111111111ull;
+    const std::uint64_t used = fields * bits >= 64 ? ~0ull : (std::uint64_t{1} << (fields * bits)) - 1;
+    const std::uint64_t mask = every & used;
+    const std::uint64_t a = word & mask, b = (word >> 1) & mask;
+    if (bits == 2) {
+        const int ab = ones(a & b), na = ones(a), nb = ones(b);
+        out[1] += na - ab;
+        out[2] += nb - ab;
+        out[3] += ab;
+        out[0] += fields - na - nb + ab;
+        return;
+    }
+    const std::uint64_t c = (word >> 2) & mask;
+    const int abc = ones(a & b & c), ab = ones(a & b), ac = ones(a & c), bc = ones(b & c);
+    const int na = ones(a), nb = ones(b), nc = ones(c);
+    out[7] += abc;
+    out[3] += ab - abc;
+    out[5] += ac - abc;
+    out[6] += bc - abc;
+    out[1] += na - ab - ac + abc;
+    out[2] += nb - ab - bc + abc;
+    out[4] += nc - ac - bc + abc;
+    out[0] += fields - na - nb - nc + ab + ac + bc - abc;
+}
+
 }  // namespace
+
+void split_uniformly(Rng& rng, std::int64_t n, int ways, std::int64_t* out) {
+    for (int w = 0; w < ways; ++w) out[w] = 0;
+    if ((ways == 4 || ways == 8) && n <= 4096) {
+        const int bits = ways == 4 ? 2 : 3;
+        const int per_word = 64 / bits;  // 32 or 21
+        for (; n >= per_word; n -= per_word) count_fields(rng(), bits, per_word, out);
+        if (n > 0) count_fields(rng(), bits, static_cast<int>(n), out);
+        return;
+    }
+    for (int w = 0; w + 1 < ways && n > 0; ++w) {
+        out[w] = binomial(rng, n, 1.0 / (ways - w));
+        n -= out[w];
+    }
+    out[ways - 1] += n;
+}
 
 std::int64_t poisson(Rng& rng, double mean) {
     if (!(mean > 0)) return 0;
