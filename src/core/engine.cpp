@@ -257,12 +257,13 @@ void Engine::migration_phase(double dt) {
             if (!(leave > 0)) continue;
             for (int i = 0; i < T; ++i) {
                 if (counts[c][i] == 0) continue;
-                std::int64_t remaining = binomial(rng, counts[c][i], leave);
-                // Split the leavers uniformly over the directions (sequential binomials).
-                for (int dir = 0; dir < dirs && remaining > 0; ++dir) {
-                    const std::int64_t n =
-                        dir + 1 == dirs ? remaining : binomial(rng, remaining, 1.0 / (dirs - dir));
-                    remaining -= n;
+                const std::int64_t leaving = binomial(rng, counts[c][i], leave);
+                if (leaving == 0) continue;
+                // Split the leavers uniformly over the directions (a multinomial).
+                std::int64_t towards[8];
+                split_uniformly(rng, leaving, dirs, towards);
+                for (int dir = 0; dir < dirs; ++dir) {
+                    const std::int64_t n = towards[dir];
                     if (n == 0) continue;
                     const auto to = neighbourhood_.step(col, row, dir);
                     if (to.kind == Neighbourhood::Target::off_edge) {
