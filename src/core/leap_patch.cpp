@@ -30,7 +30,6 @@ LeapPatch::LeapPatch(const TraitGrid& grid, const RateTable& rates, double K, Le
       level_cells_(ny_),
       level_gains_(ny_),
       level_rate_(ny_),
-      own_rate_(2 * T_),
       competition_(T_),
       all_levels_(ny_, 1),
       crit_level_(ny_),
@@ -152,36 +151,44 @@ void LeapPatch::build_channels() {
     a0_ = 0.0;
     for (int k = 0; k < 2 * T_; ++k) {
         const double cells = at_[k];
-        const bool small = x_[k] < settings_.critical_cells;
-        double own = 0.0;
+        const int level = k < T_ ? grid_.y_level(k) : -1;
+        if (x_[k] < settings_.critical_cells) {
+            // Small: every channel exact, even while empty (offspring may arrive).
+            const double own = own_rate(k);
+            double donors = 0.0;
+            for (int l = level + 1; level >= 0 && l < ny_; ++l) donors += level_at_[l];
+            a0_ += (own + conj_factor_ * donors) * cells;
+            entry_of_[k] = static_cast<std::int32_t>(exact_entries_.size());
+            exact_entries_.push_back({k, level, true, own});
+            continue;
+        }
+        // Large: leaped, except its conjugations into levels with few donors.
         bool exact_conjugation = false;
         channels_of(k, true, all_levels_.data(), level_at_.data(),
-                    [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
+                    [&](double per_cell, bool consumes, int produce, int lvl, Kind kind) {
                         const double rate = per_cell * cells;
-                        if (level < 0) own += per_cell;
-                        if (small || (level >= 0 && crit_level_[level])) {
-                            // Exact: a small species' every channel, even while empty (offspring
-                            // may arrive); a large one's conjugations into levels with few donors.
-                            a0_ += rate;
-                            exact_conjugation = exact_conjugation || level >= 0;
+                        a0_ += rate;
+                        if (lvl >= 0 && crit_level_[lvl]) {
+                            exact_conjugation = true;
                             return;
                         }
                         if (!(rate > 0)) return;  // a channel that cannot fire costs no draw
-                        a0_ += rate;
-                        channels_.push_back({rate, per_cell, k, consumes ? k : -1, produce, level, kind});
+                        channels_.push_back({rate, per_cell, k, consumes ? k : -1, produce, lvl, kind});
                     });
-        own_rate_[k] = own;
-        const int level = k < T_ ? grid_.y_level(k) : -1;
-        if (small) {
-            entry_of_[k] = static_cast<std::int32_t>(exact_entries_.size());
-            exact_entries_.push_back({k, level, true, own});
-        } else if (exact_conjugation) {
+        entry_of_[k] = -1;
+        if (exact_conjugation) {
             entry_of_[k] = static_cast<std::int32_t>(exact_entries_.size());
             exact_entries_.push_back({k, level, false, 0.0});
-        } else {
-            entry_of_[k] = -1;
         }
     }
+}
+
+// The sum of the rates per cell of a species' own channels (not its conjugations): births
+// with and without mutation add up to the birth rate, competition deaths and dormancy to
+// the competition rate.
+double LeapPatch::own_rate(int k) const {
+    return k < T_ ? rates_.birth[k] + rates_.death[k] + stress_ + competition_[k]
+                  : rates_.dormant_death + resus_;
 }
 
 // CGP 2006, eqs. (32)-(33): with mu_k and sigma_k^2 the mean and variance of the change of
@@ -308,12 +315,7 @@ void LeapPatch::set_midpoint(double tau) {
         c.rate = per_cell * at_[c.reactant];
     }
     for (ExactEntry& e : exact_entries_) {
-        if (!e.small) continue;
-        const int k = e.species;
-        // The sum of its own channels' rates per cell (births with and without mutation add
-        // up to the birth rate; competition deaths and dormancy to the competition rate).
-        e.own_rate = k < T_ ? rates_.birth[k] + rates_.death[k] + stress_ + competition_[k]
-                            : rates_.dormant_death + resus_;
+        if (e.small) e.own_rate = own_rate(e.species);
     }
 }
 

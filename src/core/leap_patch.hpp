@@ -133,6 +133,7 @@ private:
     // taken at the state at_: x_ itself, or the leap's estimated midpoint (set_midpoint).
     void build_channels();
     void take_totals();
+    double own_rate(int species) const;
     // Calls f(per_cell, consumes, produce, level, kind) for each channel of species k: its
     // own channels if `own`, and its conjugations into the levels l with level_mask[l],
     // whose rate per cell is conj_factor_ * L[l].
@@ -183,7 +184,6 @@ private:
     std::vector<double> level_rate_;            // non-critical whole-copy rate into level l
     std::vector<Channel> channels_;
     std::vector<ExactEntry> exact_entries_;
-    std::vector<double> own_rate_;              // per cell, own channels of each species (at at_)
     std::vector<double> competition_;           // per cell competition rate of each trait (at at_)
     double ncomp_ = 0.0;                        // the competing cells (at at_)
     double conj_factor_ = 0.0;                  // conjugation rate per recipient and donor cell
