@@ -348,10 +348,18 @@ void LeapPatch::change(int species, std::int64_t by) {
 }
 
 // Cells a leaped channel produces: added now to a large species; to a small one at uniform
-// times of the leap, so that they divide, convert and die from the moment they appear.
+// times of the leap, so that they divide, convert and die from the moment they appear
+// (unless they are more than critical_cells at once).
 void LeapPatch::add_cells(int species, std::int64_t n, double tau, Rng& rng) {
     if (x_[species] >= settings_.critical_cells || exact_entries_.empty()) {
         trial_[species] += n;
+        return;
+    }
+    if (n > settings_.critical_cells) {
+        // A flood (a huge resident's mutants, say: up to ~1e11 per leap at K = 1e15) makes
+        // the trait large by the end of the leap anyway; it arrives at the end, as in a plain
+        // leap, instead of one cell at a time.
+        late_.push_back({species, n});
         return;
     }
     for (std::int64_t j = 0; j < n; ++j) arrivals_.push_back({rng.uniform() * tau, species});
@@ -473,6 +481,7 @@ std::uint64_t LeapPatch::simulate_exact(double tau, Rng& rng, EventCounts& tally
 bool LeapPatch::try_leap(double tau, Rng& rng, EventCounts& tally_out, std::uint64_t& exact_events) {
     trial_ = x_;
     arrivals_.clear();
+    late_.clear();
     std::fill(level_gains_.begin(), level_gains_.end(), 0);
     EventCounts t;
     for (const Channel& c : channels_) {
@@ -506,6 +515,7 @@ bool LeapPatch::try_leap(double tau, Rng& rng, EventCounts& tally_out, std::uint
         if (v < 0) return false;  // before the exact part, whose rates need counts >= 0
     }
     const std::uint64_t exact = exact_entries_.empty() ? 0 : simulate_exact(tau, rng, t);
+    for (const auto& [species, n] : late_) trial_[species] += n;
     for (std::int64_t v : trial_) {
         if (v < 0) return false;
     }

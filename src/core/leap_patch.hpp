@@ -40,6 +40,7 @@
 #pragma once
 
 #include <cstdint>
+#include <utility>
 #include <vector>
 
 #include "core/event_counts.hpp"
@@ -191,6 +192,7 @@ private:
     std::vector<std::uint8_t> crit_level_;      // mask: donor levels with few cells
     std::vector<std::int32_t> entry_of_;        // species -> its exact entry, or -1
     std::vector<Arrival> arrivals_;
+    std::vector<std::pair<std::int32_t, std::int64_t>> late_;  // floods into small species
     std::vector<double> entry_rate_;            // work space of simulate_exact
     double exact_total_ = 0.0;                  // their sum
     std::vector<double> live_level_;            // L_l during simulate_exact
