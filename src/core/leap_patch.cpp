@@ -223,12 +223,14 @@ double LeapPatch::step_size() {
         if (c.kind == Kind::conjugation) level_bounded_[c.level] = 1;
         account(c.rate, c.consume, c.produce, c.level, c.kind);
     }
+    double exact_rate = 0.0;
     for (const ExactEntry& e : exact_entries_) {
         const int k = e.species;
         const double cells = at_[k];
         if (!(cells > 0)) continue;
         channels_of(k, e.small, e.small ? all_levels_.data() : crit_level_.data(), level_at_.data(),
                     [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
+                        exact_rate += per_cell * cells;
                         account(per_cell * cells, consumes ? k : -1, produce, level, kind);
                     });
     }
@@ -275,6 +277,9 @@ double LeapPatch::step_size() {
         }
     }
     bound_by(na + nd, eps_over_g_[0], mu_a + mu_d, var_a + var_d);
+    // The exact part's work per leap stays bounded (a recipient of 1e15 cells facing a few
+    // donors at density-dependent rates would otherwise make ~1e9 exact events in a leap).
+    if (exact_rate > 0) tau = std::min(tau, settings_.exact_per_leap / exact_rate);
     return tau;
 }
 

@@ -65,6 +65,7 @@ struct LeapSettings {
     std::int64_t critical_cells = 200;
     double exact_below = 10.0;         // SSA instead when tau < exact_below / a0 (CGP 2006)
     double exact_events = 100.0;       // expected events of one such SSA stretch
+    double exact_per_leap = 1000.0;    // at most about this many exact events inside one leap
 };
 
 // What the engine did (for tests, benchmarks and docs/performance.md).
