@@ -67,6 +67,7 @@ void SimWorker::loop() {
             engine_ = std::move(fresh);
             history_.clear();
             finished_ = false;
+            error_.clear();
             publish();
             anchor_wall = clock::now();
             anchor_sim = 0.0;
@@ -78,11 +79,20 @@ void SimWorker::loop() {
         const double target = std::min(engine_->time() + interval_, until);
         Engine* engine = engine_.get();
         lock.unlock();
-        engine->advance_to(target);  // the long part, outside the lock
+        std::string failure;
+        try {
+            engine->advance_to(target);  // the long part, outside the lock
+        } catch (const std::exception& e) {
+            // A patch would pass 2^62 cells (CellLimitError), or a check failed: the engine
+            // stands at the last step boundary it reached, which is shown; the run stops.
+            failure = e.what();
+            if (failure.empty()) failure = "the simulation stopped";
+        }
         lock.lock();
         if (engine != engine_.get()) continue;  // replaced while we stepped
         publish();
-        finished_ = engine_->time() >= until - 1e-12 * std::max(1.0, until);
+        finished_ = engine_->time() >= until - 1e-12 * std::max(1.0, until) || !failure.empty();
+        error_ = failure;
         // Pace: sleep until the wall clock catches up with simulated time at this speed.
         if (!single && !paused_) {
             const auto due = anchor_wall + std::chrono::duration<double>((engine_->time() - anchor_sim) / speed_);
@@ -160,6 +170,11 @@ std::uint64_t SimWorker::seed() const {
 bool SimWorker::finished() const {
     std::lock_guard lock(mutex_);
     return finished_;
+}
+
+std::string SimWorker::error() const {
+    std::lock_guard lock(mutex_);
+    return error_;
 }
 
 }  // namespace tessera

@@ -9,6 +9,7 @@
 #include <cstdint>
 #include <memory>
 #include <mutex>
+#include <string>
 #include <thread>
 #include <vector>
 
@@ -41,7 +42,11 @@ public:
     double speed() const;
     void restart(std::uint64_t seed);   // a fresh engine from the same scenario with this seed
     std::uint64_t seed() const;
-    bool finished() const;              // reached run.until
+    bool finished() const;              // reached run.until, or stopped by error()
+    // Why the simulation stopped before run.until ("" while it has not): the message of a
+    // CellLimitError (core/count_limit.hpp), or of any other failure of a step. The
+    // snapshot then shows the last state reached; restart() clears it.
+    std::string error() const;
     double interval() const { return interval_; }
 
 private:
@@ -63,6 +68,7 @@ private:
     bool stop_ = false;
     bool restart_ = false;
     bool finished_ = false;
+    std::string error_;
     std::thread thread_;
 };
 

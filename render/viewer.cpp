@@ -118,6 +118,7 @@ private:
     sf::Vector2u layout_{start_w, start_h};  // the size the window is laid out for (canvas_)
     LatticePlace place_;
     std::string message_;  // last action, shown in the panel
+    std::string error_;    // why the simulation stopped early (SimWorker::error), once printed
 };
 
 void Viewer::handle_key(sf::Keyboard::Key key) {
@@ -209,13 +210,32 @@ void Viewer::draw_panel(int x, int W, int H) {
         y += font_.line_height(size) + 3;
     };
     line(scenario_.title.empty() ? "tessera" : scenario_.title, 13, text_colour);
-    line(time_stamp(snapshot_.t, snapshot_.t_logK) + (worker_.finished() ? "  (end)" : ""), 13, text_colour);
+    line(time_stamp(snapshot_.t, snapshot_.t_logK) + (!error_.empty() ? "  (stopped)" : worker_.finished() ? "  (end)" : ""), 13,
+         text_colour);
     line(format("K = %g", scenario_.K) + "   method " + name_of(scenario_.method) +
              "   seed " + std::to_string(worker_.seed()), 11, muted_text_colour);
     line(format("speed %.3g time units / s", worker_.speed()) + (worker_.paused() ? "   PAUSED" : ""), 11,
          worker_.paused() ? Rgb8{255, 200, 90} : muted_text_colour);
     if (recording_) line("REC " + std::to_string(recorder_->frames()) + " frames (R stops)", 11, Rgb8{255, 110, 100});
     if (!message_.empty()) line(message_, 11, muted_text_colour);
+    if (!error_.empty()) {
+        // The whole message (it names the limit and what to change), word-wrapped.
+        const Rgb8 red{255, 110, 100};
+        std::string rest = "stopped: " + error_, row;
+        while (!rest.empty()) {
+            const std::size_t space = rest.find(' ');
+            const std::string word = rest.substr(0, space);
+            rest = space == std::string::npos ? "" : rest.substr(space + 1);
+            const std::string longer = row.empty() ? word : row + " " + word;
+            if (!row.empty() && font_.width(longer, 11) > tw) {
+                line(row, 11, red);
+                row = word;
+            } else {
+                row = longer;
+            }
+        }
+        if (!row.empty()) line(row, 11, red);
+    }
     line("H: keys and help", 11, muted_text_colour);
     y += 6;
     draw_legend(&canvas_, font_, tx, y, tw, snapshot_, view_, palette_);
@@ -342,6 +362,13 @@ int Viewer::run() {
 
         const std::uint64_t v = worker_.fetch(version_, snapshot_, history_);
         if (v != version_ && recording_) recorder_->write(snapshot_);
+        if (v != version_) {
+            // A run stopped early (a patch would pass 2^62 cells): shown in the panel until a
+            // restart clears it, and printed once.
+            const std::string error = worker_.error();
+            if (!error.empty() && error != error_) std::cerr << "error: " << error << "\n";
+            error_ = error;
+        }
         version_ = v;
         const sf::Vector2u size = layout_;
         compose(size.x, size.y);
@@ -358,7 +385,7 @@ int Viewer::run() {
         if (options_.frames > 0 && ++drawn >= options_.frames) window.close();
     }
     if (recorder_) std::cout << "recorded " << recorder_->frames() << " frames to " << recorder_->directory().string() << "\n";
-    return 0;
+    return error_.empty() ? 0 : 2;  // 2: the simulation on screen was stopped by a limit
 }
 
 }  // namespace

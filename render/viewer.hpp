@@ -25,7 +25,8 @@ struct ViewerOptions {
 inline constexpr unsigned viewer_min_width = 800, viewer_min_height = 560;
 
 // Opens the window and runs until it is closed. Returns the exit code (0; 2 for a bad
-// script; 1 when no window can be opened, with a message).
+// script, or when the simulation stopped early because a patch would pass 2^62 cells, which
+// the panel shows and stderr gets; 1 when no window can be opened, with a message).
 int run_viewer(const Scenario& scenario, const ViewerOptions& options);
 
 }  // namespace tessera

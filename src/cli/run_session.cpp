@@ -2,7 +2,6 @@
 
 #include <tbb/global_control.h>
 #include <tbb/info.h>
-#include <tbb/parallel_for.h>
 
 #include <atomic>
 #include <chrono>
@@ -19,7 +18,9 @@
 #include "cli/checkpoint_keeper.hpp"
 #include "cli/csv_output.hpp"
 #include "cli/progress.hpp"
+#include "core/count_limit.hpp"
 #include "core/engine.hpp"
+#include "core/parallel.hpp"
 #include "io/fields_writer.hpp"
 #include "io/scenario_writer.hpp"
 #include "io/series_writer.hpp"
@@ -226,7 +227,9 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
     std::string failure;
     std::vector<char> finished(static_cast<std::size_t>(R), 0);
     std::vector<double> stopped_at(static_cast<std::size_t>(R), 0.0);  // in run.time_unit
-    tbb::parallel_for(0, R, [&](int r) {
+    int limit_replicate = -1;  // the replicate stopped by the cell limit (under failure_mutex)
+    // tessera::parallel_for, so that a TSan build sees the fork and join (core/parallel.hpp).
+    tessera::parallel_for(0, R, [&](int r) {
         const ReplicateCheckpoint& begin = start[static_cast<std::size_t>(r)];
         if (begin.stage == Stage::finished) {
             finished[static_cast<std::size_t>(r)] = 1;
@@ -259,7 +262,21 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
             }
             ReplicateOutputs outputs(r, series, habitat_series, std::move(fields), std::move(frames), progress, keeper,
                                      scenario.checkpoint_every);
-            engine.run(outputs, &interrupted, resumed);
+            try {
+                engine.run(outputs, &interrupted, resumed);
+            } catch (const CellLimitError& e) {
+                // Stopped at a step boundary below the limit: keep that state and every output.
+                outputs.checkpoint(engine, Stage::running);
+                stopped_at[static_cast<std::size_t>(r)] =
+                    scenario.time_unit == TimeUnit::logK ? engine.time_logK() : engine.time();
+                std::lock_guard lock(failure_mutex);
+                if (failure.empty()) {
+                    failure = e.what();
+                    limit_replicate = r;
+                }
+                interrupted = true;  // stop the other replicates too
+                return;
+            }
             const bool done = engine.time() >= engine.until();
             outputs.checkpoint(engine, done ? Stage::finished : Stage::running);
             finished[static_cast<std::size_t>(r)] = done ? 1 : 0;
@@ -288,6 +305,13 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
     std::signal(SIGTERM, SIG_DFL);
     if (!failure.empty()) {
         std::cerr << "error: " << failure << "\n";
+        if (limit_replicate >= 0)
+            std::cerr << (R > 1 ? "replicate " + std::to_string(limit_replicate) + " stopped at " : "stopped at ")
+                      << (scenario.time_unit == TimeUnit::logK ? "t/lnK = " : "t = ")
+                      << stopped_at[static_cast<std::size_t>(limit_replicate)]
+                      << "; the outputs up to then"
+                      << (R > 1 ? " (series in one .part file per replicate, as for an interrupted run)" : "")
+                      << " and a checkpoint of that state are in " << dir.string() << "/\n";
         return 2;
     }
     const int signal = interrupt_signal.load();

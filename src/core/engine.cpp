@@ -9,6 +9,7 @@
 #include <optional>
 #include <stdexcept>
 
+#include "core/count_limit.hpp"
 #include "core/exact_patch.hpp"
 #include "core/exact_spatial.hpp"
 #include "core/leap_patch.hpp"
@@ -157,6 +158,9 @@ void Engine::advance_to(double t_end, const std::atomic<bool>* stop) {
         if (stop && stop->load()) return;
         double next = std::min({t_end, time_ + scenario_.sync, timeline_.next_change_after(time_)});
         if (reached(next, t_end)) next = t_end;
+        // Never a step that could carry a patch past 2^62 cells: near the limit a long step
+        // is cut short, or the run stops here with CellLimitError (core/count_limit.hpp).
+        next = limit_step(*this, next);
 #ifdef TESSERA_VALIDATE
         validate_before_step(next);
 #endif

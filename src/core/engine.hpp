@@ -50,10 +50,12 @@ public:
     // when `stop` becomes true; on return every output due at or before time() was handed out.
     // `resumed`: the engine was restored from a checkpoint, so the outputs due at or before
     // the current time were handed out by the run that wrote it and are not repeated.
+    // Throws CellLimitError (core/count_limit.hpp), at a step boundary with the outputs due
+    // so far handed out, rather than start a step that could carry a patch past 2^62 cells.
     void run(Observer& observer, const std::atomic<bool>* stop = nullptr, bool resumed = false);
 
     // Advances to plain time `t_end` in steps of at most run.sync; returns early, after a
-    // whole step, when `stop` becomes true.
+    // whole step, when `stop` becomes true. Throws CellLimitError as run() does.
     void advance_to(double t_end, const std::atomic<bool>* stop = nullptr);
 
     const Scenario& scenario() const { return scenario_; }

@@ -7,6 +7,20 @@ namespace tessera {
 
 namespace {
 
+// Lattice-wide totals: each patch stays below 2^62 cells (core/count_limit.hpp), but a
+// lattice of them can hold more than 2^63.
+__extension__ using wide = __int128;
+
+std::string text(wide v) {
+    if (v < 0) return "-" + text(-v);
+    std::string digits;
+    do {
+        digits.insert(digits.begin(), static_cast<char>('0' + static_cast<int>(v % 10)));
+        v /= 10;
+    } while (v > 0);
+    return digits;
+}
+
 std::int64_t population(const Lattice& lattice, std::size_t p) {
     std::int64_t n = 0;
     const std::int64_t* a = lattice.active(p);
@@ -55,7 +69,7 @@ void StepValidator::after(const Lattice& lattice, const std::vector<EventCounts>
                           const MigrationBooks* migration, bool per_patch_books) {
     const int W = lattice.width();
     const std::size_t P = lattice.patches();
-    std::int64_t total_before = 0, total_now = 0, total_local = 0;
+    wide total_before = 0, total_now = 0, total_local = 0;
     std::uint64_t sent = 0, received = 0;
     for (std::size_t p = 0; p < P; ++p) {
         const std::int64_t* a = lattice.active(p);
@@ -90,10 +104,9 @@ void StepValidator::after(const Lattice& lattice, const std::vector<EventCounts>
         fail(std::nullopt, W, std::to_string(sent) + " cells emigrated but " + std::to_string(received) + " immigrated");
     const auto lost = static_cast<std::int64_t>(lost_total - lost_before_);
     if (total_before + total_local - lost != total_now)
-        fail(std::nullopt, W, "the lattice's books do not balance: before " + std::to_string(total_before) +
-                                  " + born - died " + std::to_string(total_local) + " - lost " + std::to_string(lost) +
-                                  " = " + std::to_string(total_before + total_local - lost) + ", but it holds " +
-                                  std::to_string(total_now));
+        fail(std::nullopt, W, "the lattice's books do not balance: before " + text(total_before) + " + born - died " +
+                                  text(total_local) + " - lost " + std::to_string(lost) + " = " +
+                                  text(total_before + total_local - lost) + ", but it holds " + text(total_now));
     if (stop_now())
         std::fprintf(stderr, "validate: stopped after step %llu of replicate %u as TESSERA_STOP_AFTER_STEP asks; "
                              "every check passed\n",

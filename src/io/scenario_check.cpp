@@ -4,6 +4,7 @@
 #include <cmath>
 #include <map>
 
+#include "core/count_limit.hpp"
 #include "core/trait_grid.hpp"
 #include "io/scenario_findings.hpp"
 #include "io/text_help.hpp"
@@ -163,9 +164,6 @@ void check_habitats(const Scenario& s, Findings& f) {
     }
 }
 
-// Counts are signed 64-bit; cells are kept below 2^62 so that sums of a few never wrap.
-constexpr double cell_limit = 4611686018427387904.0;  // 2^62
-
 // K_p = K * capacity is the scale every count in a patch grows to: it must stay a number of
 // cells a count can hold, with room for the fluctuations above it.
 constexpr double patch_capacity_limit = 1e18;
@@ -208,14 +206,14 @@ void check_inocula(const Scenario& s, Findings& f) {
         double cells = in.active.value_or(0.0);
         if (in.exponent && s.K * max_capacity > 1.0) {
             cells = std::pow(s.K * max_capacity, *in.exponent);
-            if (!(cells < cell_limit))
+            if (!(cells < cell_limit_real))
                 f.add(key + ".exponent", "K_p^exponent = " + format_number(cells) +
                                              " cells per patch is too many; accepted: an exponent giving fewer "
                                              "than 2^62 cells");
         }
         per_patch += cells + in.dormant;
     }
-    if (!(per_patch < cell_limit) && !s.inocula.empty())
+    if (!(per_patch < cell_limit_real) && !s.inocula.empty())
         f.add(entry("inoculum", s.inocula.size() - 1),
               "the inocula together put up to " + format_number(per_patch) +
                   " cells in one patch; accepted: fewer than 2^62 (4.6e18) cells per patch in total");

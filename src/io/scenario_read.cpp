@@ -5,6 +5,7 @@
 #include <cmath>
 #include <limits>
 
+#include "core/count_limit.hpp"
 #include "io/scenario_findings.hpp"
 #include "io/table_reader.hpp"
 #include "io/text_help.hpp"
@@ -31,8 +32,8 @@ const Keys schedule_keys = {"habitat", "start", "end", "every", "capacity", "str
 const Keys run_keys = {"until", "time_unit", "method", "sync", "seed", "threads", "checkpoint_every"};
 const Keys output_keys = {"every", "fields_every", "frames_every", "frame_scale"};
 
-constexpr double count_limit = 4611686018427387904.0;  // 2^62: counts stay far from uint64 overflow
-const Bounds count_bounds{0.0, count_limit, false, false, "a whole number >= 0 and below 2^62", true};
+// One count may not pass what a whole patch may hold (core/count_limit.hpp).
+const Bounds count_bounds{0.0, cell_limit_real, false, false, "a whole number >= 0 and below 2^62", true};
 const std::string trait_accepted = "[dormancy, transfer], a trait on the grid";
 
 std::string entry_name(const std::string& array, std::size_t i) {

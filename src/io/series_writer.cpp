@@ -36,9 +36,26 @@ void append_time(std::string& out, double t) {
     out += buf;
 }
 
+// Totals over patches: each patch holds fewer than 2^62 cells (core/count_limit.hpp), but
+// a lattice of them can hold more than 2^63, so they are summed and written in 128 bits.
+__extension__ using wide = __int128;
+
+void append_count(std::string& out, wide v) {
+    if (v < 0) {
+        out += '-';
+        v = -v;
+    }
+    char digits[48];
+    int n = 0;
+    do {
+        digits[n++] = static_cast<char>('0' + static_cast<int>(v % 10));
+        v /= 10;
+    } while (v > 0);
+    while (n > 0) out += digits[--n];
+}
+
 // Per-trait totals over the patches of one class (class < 0: every patch), in patch order.
-void sum_counts(const Engine& engine, int habitat_class, std::vector<std::int64_t>& active,
-                std::vector<std::int64_t>& dormant) {
+void sum_counts(const Engine& engine, int habitat_class, std::vector<wide>& active, std::vector<wide>& dormant) {
     const Lattice& lattice = engine.lattice();
     const int T = lattice.traits();
     active.assign(static_cast<std::size_t>(T), 0);
@@ -65,14 +82,14 @@ void append_time_prefix(const Engine& engine, std::string& out) {
 }
 
 // "dormancy,transfer,active,dormant" of trait i.
-void append_trait_counts(std::string& out, const TraitGrid& traits, int i, std::int64_t active, std::int64_t dormant) {
+void append_trait_counts(std::string& out, const TraitGrid& traits, int i, wide active, wide dormant) {
     append_number(out, traits.dormancy(i));
     out += ',';
     append_number(out, traits.transfer(i));
     out += ',';
-    out += std::to_string(active);
+    append_count(out, active);
     out += ',';
-    out += std::to_string(dormant);
+    append_count(out, dormant);
 }
 
 }  // namespace
@@ -80,7 +97,7 @@ void append_trait_counts(std::string& out, const TraitGrid& traits, int i, std::
 void append_series_rows(const Engine& engine, std::string& out) {
     const TraitGrid& traits = engine.traits();
     const int T = traits.size();
-    std::vector<std::int64_t> active, dormant;
+    std::vector<wide> active, dormant;
     sum_counts(engine, -1, active, dormant);
     const double log_K = std::log(engine.scenario().K);
     for (int i = 0; i < T; ++i) {
@@ -94,7 +111,7 @@ void append_series_rows(const Engine& engine, std::string& out) {
 
 void append_habitat_series_rows(const Engine& engine, std::string& out) {
     const TraitGrid& traits = engine.traits();
-    std::vector<std::int64_t> active, dormant;
+    std::vector<wide> active, dormant;
     const auto& habitats = engine.scenario().habitats;
     for (std::size_t c = 0; c < habitats.size(); ++c) {
         sum_counts(engine, static_cast<int>(c), active, dormant);
