@@ -104,7 +104,7 @@ void ExactPatch::recompute_sums() {
     transfer_pairs_ = 0;
     std::int64_t below = 0;
     for (int l = 0; l < ny_; ++l) {
-        transfer_pairs_ += below * transfer_level_[l];
+        transfer_pairs_ += static_cast<uint128>(below) * static_cast<uint128>(transfer_level_[l]);
         below += transfer_level_[l];
     }
 }
@@ -115,8 +115,10 @@ void ExactPatch::add_active(int i, std::int64_t delta) {
     const double dd = static_cast<double>(delta);
     // Pairs across transfer levels: one cell more at level y pairs with every active cell at
     // another level; one fewer removes as many (counted after the removal).
+    // (uint128 arithmetic is modulo 2^128, so adding a negative change wraps to the right,
+    // non-negative result.)
     if (delta > 0) {
-        transfer_pairs_ += delta * (active_total_ - transfer_level_[y]);
+        transfer_pairs_ += static_cast<uint128>(delta) * static_cast<uint128>(active_total_ - transfer_level_[y]);
         A_[i] += delta;
         active_total_ += delta;
         transfer_level_[y] += delta;
@@ -124,7 +126,7 @@ void ExactPatch::add_active(int i, std::int64_t delta) {
         A_[i] += delta;
         active_total_ += delta;
         transfer_level_[y] += delta;
-        transfer_pairs_ += delta * (active_total_ - transfer_level_[y]);
+        transfer_pairs_ -= static_cast<uint128>(-delta) * static_cast<uint128>(active_total_ - transfer_level_[y]);
     }
     active_rows_[x] += delta;
     const double db = dd * rates_.birth[i];
@@ -234,20 +236,29 @@ int ExactPatch::pick_in_column(int y_level, std::uint64_t r) const {
 // One conjugation: a (recipient, donor) pair drawn uniformly among the pairs whose donor
 // sits at a higher transfer level. Integer draws, so no rounding enters the choice.
 void ExactPatch::conjugate(Rng& rng) {
-    std::uint64_t r = rng.below(static_cast<std::uint64_t>(transfer_pairs_));
+    uint128 r = below_128(rng, transfer_pairs_);
     // Recipient level l has weight L[l] * (cells above l).
     std::int64_t above = active_total_;
     int l = 0;
     for (; l < ny_; ++l) {
         above -= transfer_level_[l];
-        const auto w = static_cast<std::uint64_t>(transfer_level_[l] * above);
+        const uint128 w = static_cast<uint128>(transfer_level_[l]) * static_cast<uint128>(above);
         if (r < w) break;
         r -= w;
     }
-    // r is uniform on [0, L[l] * above): split into recipient rank and donor rank.
+    // r is uniform on [0, L[l] * above): split into recipient rank and donor rank (64-bit
+    // division whenever r fits, as it nearly always does).
     const auto above_u = static_cast<std::uint64_t>(above);
-    const int recipient = pick_in_column(l, r / above_u);
-    std::uint64_t donor_rank = r % above_u;
+    std::uint64_t recipient_rank = 0, donor_rank = 0;
+    if (r >> 64 == 0) {
+        const auto r64 = static_cast<std::uint64_t>(r);
+        recipient_rank = r64 / above_u;
+        donor_rank = r64 % above_u;
+    } else {
+        recipient_rank = static_cast<std::uint64_t>(r / above_u);
+        donor_rank = static_cast<std::uint64_t>(r % above_u);
+    }
+    const int recipient = pick_in_column(l, recipient_rank);
     int donor = -1;
     for (int m = l + 1; m < ny_; ++m) {
         const auto w = static_cast<std::uint64_t>(transfer_level_[m]);
@@ -400,7 +411,8 @@ std::string ExactPatch::check_kept_sums() const {
     const double birth_scale = *std::max_element(rates_.birth.begin(), rates_.birth.end());
     const double death_scale = *std::max_element(rates_.death.begin(), rates_.death.end());
     const double competition_scale = *std::max_element(rates_.competition.begin(), rates_.competition.end());
-    std::int64_t active = 0, dormant = 0, pairs = 0, below = 0;
+    std::int64_t active = 0, dormant = 0, below = 0;
+    uint128 pairs = 0;
     double birth = 0, death = 0, competition = 0;
     std::vector<std::int64_t> level(static_cast<std::size_t>(ny_), 0);
     for (int x = 0; x < nx_; ++x) {
@@ -432,12 +444,15 @@ std::string ExactPatch::check_kept_sums() const {
     for (int l = 0; l < ny_; ++l) {
         integer(("active cells at transfer level " + std::to_string(l)).c_str(), transfer_level_[l],
                 level[static_cast<std::size_t>(l)]);
-        pairs += below * level[static_cast<std::size_t>(l)];
+        pairs += static_cast<uint128>(below) * static_cast<uint128>(level[static_cast<std::size_t>(l)]);
         below += level[static_cast<std::size_t>(l)];
     }
     integer("active cells", active_total_, active);
     integer("dormant cells", dormant_total_, dormant);
-    integer("conjugation pairs", transfer_pairs_, pairs);
+    if (transfer_pairs_ != pairs)
+        problems += std::string(problems.empty() ? "" : "; ") + "conjugation pairs kept " +
+                    std::to_string(static_cast<double>(transfer_pairs_)) + ", recomputed " +
+                    std::to_string(static_cast<double>(pairs));
     floating("birth sum", birth_sum_, birth, birth_scale);
     if (!death_uniform_) floating("death sum", death_sum_, death, death_scale);
     if (!competition_uniform_) floating("competition sum", competition_sum_, competition, competition_scale);

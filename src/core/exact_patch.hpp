@@ -111,7 +111,9 @@ private:
     double birth_sum_ = 0.0, death_sum_ = 0.0, competition_sum_ = 0.0;
     std::vector<std::int64_t> active_rows_, dormant_rows_;  // cell counts per x level
     std::vector<std::int64_t> transfer_level_;  // L[l]: active cells at y level l
-    std::int64_t transfer_pairs_ = 0;         // sum_{l<l'} L[l] L[l']
+    // sum_{l<l'} L[l] L[l'], in 128 bits: two levels of 3.1e9 cells each already make more
+    // pairs than an int64 holds (counts go up to 2^62).
+    uint128 transfer_pairs_ = 0;
 };
 
 }  // namespace tessera

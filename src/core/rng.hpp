@@ -102,4 +102,16 @@ private:
     std::uint64_t s_[4];
 };
 
+// Uniform integer in [0, n), n > 0, for counts of pairs that may pass 2^64: the 64-bit draw
+// above when n fits (the same numbers as before), else rejection from 128 random bits.
+inline uint128 below_128(Rng& rng, uint128 n) {
+    if (n >> 64 == 0) return rng.below(static_cast<std::uint64_t>(n));
+    const uint128 all = ~uint128{0};
+    const uint128 limit = all - all % n;  // a multiple of n: below it every residue is equally likely
+    for (;;) {
+        const uint128 x = (static_cast<uint128>(rng()) << 64) | rng();
+        if (x < limit) return x % n;
+    }
+}
+
 }  // namespace tessera
