@@ -136,6 +136,14 @@ TEST_CASE("A bad checkpoint is refused with the file name and the reason", "[che
     other[8] = 99;  // format version 99
     CHECK_THAT(refusal(other), Contains("format version 99") && Contains("reads version 1"));
     CHECK(refusal(good) == "accepted");
+    // Well-formed, checksummed, and still impossible: a negative count, a count past 2^62.
+    for (std::int64_t bad : {std::int64_t{-5}, (std::int64_t{1} << 62) + 1}) {
+        ReplicateCheckpoint r = section_of(e);
+        r.state.active[2] = bad;
+        const std::string forged = encode_checkpoint("title = \"x\"\n", s.habitat_of_patch, {encode_replicate(r)});
+        CHECK_THAT(refusal(forged), Contains("run/checkpoint.bin: malformed checkpoint") &&
+                                        Contains("cell count of " + std::to_string(bad)));
+    }
 }
 
 TEST_CASE("An engine restored from a checkpoint continues bit for bit", "[checkpoint]") {

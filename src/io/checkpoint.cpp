@@ -9,6 +9,7 @@
 #include <fstream>
 #include <iterator>
 
+#include "core/count_limit.hpp"
 #include "io/checksum.hpp"
 #include "version.hpp"
 
@@ -120,7 +121,12 @@ ReplicateCheckpoint decode_replicate(Decoder& d) {
     s.migrants = d.u64("migrants");
     for (auto* v : {&s.active, &s.dormant}) {
         v->resize(d.count(8, "counts"));
-        for (std::int64_t& x : *v) x = d.i64("counts");
+        for (std::int64_t& x : *v) {
+            x = d.i64("counts");
+            // A count no run can hold: refused here, never handed to the engine.
+            if (x < 0 || x > cell_limit)
+                d.fail("a cell count of " + std::to_string(x) + ", outside 0 .. 2^62 (" + std::to_string(cell_limit) + ")");
+        }
     }
     if (s.active.size() != s.dormant.size()) d.fail("active and dormant counts differ in size");
     s.patch_counts.resize(d.count(64, "per-patch event tallies"));
