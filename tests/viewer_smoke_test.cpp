@@ -19,24 +19,64 @@
 using namespace tessera;
 namespace fs = std::filesystem;
 
-TEST_CASE("the viewer runs scripted frames and keys and shows lattice and legend") {
+namespace {
+
+// A small lattice filled with cells of trait (0,0) at K = 100, for the window to show.
+Scenario small_scenario(const char* title, int width, int height) {
     Scenario sc;
-    sc.title = "viewer smoke test";
+    sc.title = title;
     sc.K = 100;
-    sc.width = 12;
-    sc.height = 8;
-    Habitat open;
-    sc.habitats = {open};
-    sc.habitat_of_patch.assign(96, 0);
+    sc.width = width;
+    sc.height = height;
+    sc.habitats = {Habitat{}};
+    sc.habitat_of_patch.assign(static_cast<std::size_t>(width * height), 0);
     Inoculum in;
     in.exponent = 1.0;
     sc.inocula = {in};
     sc.until = 3.0;
     sc.output_every = 0.05;
+    return sc;
+}
 
-    const fs::path dir = fs::temp_directory_path() / "tessera_viewer_smoke";
+// An empty directory of that name under the system's temporary directory.
+fs::path fresh_dir(const char* name) {
+    const fs::path dir = fs::temp_directory_path() / name;
     fs::remove_all(dir);
     fs::create_directories(dir);
+    return dir;
+}
+
+// Far from blank: lattice, text and plot lines make many colours.
+void check_not_blank(const sf::Image& image) {
+    const auto size = image.getSize();
+    std::set<std::uint32_t> colours;
+    for (unsigned y = 0; y < size.y; y += 2) {
+        for (unsigned x = 0; x < size.x; x += 2) colours.insert(image.getPixel(x, y).toInteger());
+    }
+    CHECK(colours.size() > 50);
+}
+
+// The legend's trait swatches are in the side panel (the right 300 px): each trait colour
+// of the 3 x 3 palette appears there.
+void check_legend(const sf::Image& image) {
+    const auto size = image.getSize();
+    const TraitPalette palette(3, 3);
+    for (int t = 0; t < palette.size(); ++t) {
+        bool found = false;
+        const sf::Color want(palette.colour(t).r, palette.colour(t).g, palette.colour(t).b);
+        for (unsigned y = 0; y < size.y && !found; ++y) {
+            for (unsigned x = size.x - 300; x < size.x && !found; ++x) found = image.getPixel(x, y) == want;
+        }
+        INFO("trait " << t);
+        CHECK(found);
+    }
+}
+
+}  // namespace
+
+TEST_CASE("the viewer runs scripted frames and keys and shows lattice and legend") {
+    const Scenario sc = small_scenario("viewer smoke test", 12, 8);
+    const fs::path dir = fresh_dir("tessera_viewer_smoke");
     const fs::path shot = dir / "shot.png", help = dir / "help.png";
     ViewerOptions o;
     o.record_dir = (dir / "rec").string();
@@ -49,24 +89,9 @@ TEST_CASE("the viewer runs scripted frames and keys and shows lattice and legend
     REQUIRE(image.loadFromFile(shot.string()));
     const auto size = image.getSize();
     REQUIRE(size.x >= 600);
-    std::set<std::uint32_t> colours;
-    for (unsigned y = 0; y < size.y; y += 2) {
-        for (unsigned x = 0; x < size.x; x += 2) colours.insert(image.getPixel(x, y).toInteger());
-    }
-    CHECK(colours.size() > 50);  // lattice, text, plot lines: far from blank
+    check_not_blank(image);
 
-    // The legend's trait swatches are in the side panel (the right 300 px): each trait
-    // colour of the 3 x 3 palette appears there.
-    const TraitPalette palette(3, 3);
-    for (int t = 0; t < palette.size(); ++t) {
-        bool found = false;
-        const sf::Color want(palette.colour(t).r, palette.colour(t).g, palette.colour(t).b);
-        for (unsigned y = 0; y < size.y && !found; ++y) {
-            for (unsigned x = size.x - 300; x < size.x && !found; ++x) found = image.getPixel(x, y) == want;
-        }
-        INFO("trait " << t);
-        CHECK(found);
-    }
+    check_legend(image);
     CHECK(fs::exists(dir / "rec" / "frame_000000.png"));
     sf::Image with_help;
     REQUIRE(with_help.loadFromFile(help.string()));
@@ -103,23 +128,8 @@ Box selection_outline(const sf::Image& image) {
 }  // namespace
 
 TEST_CASE("resize=W,H lays the window out again: new size, square patches that fit, legend in the panel") {
-    Scenario sc;
-    sc.title = "viewer resize test";
-    sc.K = 100;
-    sc.width = 12;
-    sc.height = 8;
-    Habitat open;
-    sc.habitats = {open};
-    sc.habitat_of_patch.assign(96, 0);
-    Inoculum in;
-    in.exponent = 1.0;
-    sc.inocula = {in};
-    sc.until = 3.0;
-    sc.output_every = 0.05;
-
-    const fs::path dir = fs::temp_directory_path() / "tessera_viewer_resize";
-    fs::remove_all(dir);
-    fs::create_directories(dir);
+    const Scenario sc = small_scenario("viewer resize test", 12, 8);
+    const fs::path dir = fresh_dir("tessera_viewer_resize");
     struct Case {
         unsigned w, h;            // asked for
         unsigned want_w, want_h;  // the window it gets
@@ -138,7 +148,6 @@ TEST_CASE("resize=W,H lays the window out again: new size, square patches that f
     o.frames = 2000;
     REQUIRE(run_viewer(sc, o) == 0);
 
-    const TraitPalette palette(3, 3);
     for (const Case& c : cases) {
         INFO("resize=" << c.w << "," << c.h);
         sf::Image image;
@@ -147,11 +156,7 @@ TEST_CASE("resize=W,H lays the window out again: new size, square patches that f
         CHECK(size.x == c.want_w);
         CHECK(size.y == c.want_h);
 
-        std::set<std::uint32_t> colours;
-        for (unsigned y = 0; y < size.y; y += 2) {
-            for (unsigned x = 0; x < size.x; x += 2) colours.insert(image.getPixel(x, y).toInteger());
-        }
-        CHECK(colours.size() > 50);
+        check_not_blank(image);
 
         // The selected patch is square and lies inside the lattice area, which is laid
         // out for the new size: 12 x 8 patches at (side - 2) pixels each fit in it.
@@ -168,17 +173,7 @@ TEST_CASE("resize=W,H lays the window out again: new size, square patches that f
         // pixel more per patch would not fit.
         CHECK((12 * (scale + 1) > area_w || 8 * (scale + 1) > area_h));
 
-        // The legend is still drawn in the side panel, the right 300 px: every trait
-        // colour of the 3 x 3 palette appears there.
-        for (int t = 0; t < palette.size(); ++t) {
-            bool found = false;
-            const sf::Color want(palette.colour(t).r, palette.colour(t).g, palette.colour(t).b);
-            for (unsigned y = 0; y < size.y && !found; ++y) {
-                for (unsigned x = size.x - 300; x < size.x && !found; ++x) found = image.getPixel(x, y) == want;
-            }
-            INFO("trait " << t);
-            CHECK(found);
-        }
+        check_legend(image);  // still drawn in the side panel
     }
     fs::remove_all(dir);
 }
@@ -198,22 +193,8 @@ TEST_CASE("a bad resize step is refused before the window opens") {
 }
 
 TEST_CASE("--record records from the first frame; R stops, and starting again numbers on") {
-    Scenario sc;
-    sc.title = "viewer record test";
-    sc.K = 100;
-    sc.width = 6;
-    sc.height = 4;
-    Habitat open;
-    sc.habitats = {open};
-    sc.habitat_of_patch.assign(24, 0);
-    Inoculum in;
-    in.exponent = 1.0;
-    sc.inocula = {in};
-    sc.until = 3.0;
-    sc.output_every = 0.05;
-
-    const fs::path dir = fs::temp_directory_path() / "tessera_viewer_record";
-    fs::remove_all(dir);
+    const Scenario sc = small_scenario("viewer record test", 6, 4);
+    const fs::path dir = fresh_dir("tessera_viewer_record");
     ViewerOptions o;
     o.record_dir = (dir / "rec").string();
     o.record_at_start = true;  // what `tessera view --record DIR` sets
