@@ -132,12 +132,12 @@ void LeapPatch::take_totals() {
         nd += at_[T_ + i];
         level_at_[grid_.y_level(i)] += at_[i];
     }
-    ncomp_ = rates_.competition_counts_dormant ? na + nd : na;
+    const double ncomp = rates_.competition_counts_dormant ? na + nd : na;
     conj_factor_ = !(na > 0) || !(rates_.transfer > 0)
                        ? 0.0
                        : (rates_.transfer_form == TransferForm::frequency ? rates_.transfer / na
                                                                           : rates_.transfer * inv_Kp_);
-    for (int i = 0; i < T_; ++i) competition_[i] = rates_.competition[i] * ncomp_ * inv_Kp_;
+    for (int i = 0; i < T_; ++i) competition_[i] = rates_.competition[i] * ncomp * inv_Kp_;
 }
 
 void LeapPatch::build_channels() {
@@ -228,7 +228,7 @@ double LeapPatch::step_size() {
         const int k = e.species;
         const double cells = at_[k];
         if (!(cells > 0)) continue;
-        channels_of(k, e.small, e.small ? all_levels_.data() : crit_level_.data(), level_at_.data(),
+        channels_of(k, e.small, entry_levels(e), level_at_.data(),
                     [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
                         exact_rate += per_cell * cells;
                         account(per_cell * cells, consumes ? k : -1, produce, level, kind);
@@ -304,20 +304,24 @@ void LeapPatch::tally(Kind kind, std::int64_t k, EventCounts& c) const {
 // & Kurtz 2011, "Error analysis of tau-leap simulation methods", Ann. Appl. Probab.
 // 21:2226), for the price of one more evaluation of the rates and no extra draws.
 // Only the rates change there (which channels exist and which are exact stays as at the
-// start): each leaped channel's rate per cell is constant, proportional to the competing
-// cells, or the conjugation factor times its donor level.
+// start): each leaped channel's rate per cell is constant (kept from the start), a share of
+// its trait's competition rate, or the conjugation factor times its donor level, taken
+// afresh from the midpoint's totals (also when a rejected leap is retried shorter).
 void LeapPatch::set_midpoint(double tau) {
     for (std::size_t k = 0; k < x_.size(); ++k) {
         at_[k] = std::max(0.0, static_cast<double>(x_[k]) + 0.5 * tau * drift_[k]);
     }
-    const double ncomp_start = ncomp_;
     take_totals();
-    const double competition_ratio = ncomp_start > 0 ? ncomp_ / ncomp_start : 0.0;
     for (Channel& c : channels_) {
+        const int i = c.reactant;
         double per_cell = c.per_cell;
-        if (c.kind == Kind::competition_death || c.kind == Kind::dormancy) per_cell *= competition_ratio;
-        if (c.kind == Kind::conjugation) per_cell = conj_factor_ * level_at_[c.level];
-        c.rate = per_cell * at_[c.reactant];
+        switch (c.kind) {
+            case Kind::competition_death: per_cell = competition_[i] * (1 - rates_.dormancy_probability[i]); break;
+            case Kind::dormancy: per_cell = competition_[i] * rates_.dormancy_probability[i]; break;
+            case Kind::conjugation: per_cell = conj_factor_ * level_at_[c.level]; break;
+            default: break;  // births, deaths, resuscitation: constant per cell
+        }
+        c.rate = per_cell * at_[i];
     }
     for (ExactEntry& e : exact_entries_) {
         if (e.small) e.own_rate = own_rate(e.species);
@@ -370,12 +374,22 @@ void LeapPatch::add_cells(int species, std::int64_t n, double tau, Rng& rng) {
     for (std::int64_t j = 0; j < n; ++j) arrivals_.push_back({rng.uniform() * tau, species});
 }
 
+// The cells an exact entry's rate is proportional to: a small species' count as it changes;
+// a large one's count at the midpoint, as for its leaped channels.
+double LeapPatch::entry_cells(const ExactEntry& e) const {
+    return e.small ? static_cast<double>(trial_[e.species]) : at_[e.species];
+}
+
+// The donor levels of an exact entry's conjugations: every level above a small species',
+// only the small ones above a large species'.
+const std::uint8_t* LeapPatch::entry_levels(const ExactEntry& e) const {
+    return e.small ? all_levels_.data() : crit_level_.data();
+}
+
 double LeapPatch::exact_rate(const ExactEntry& e) const {
-    if (e.level < 0) return e.own_rate * static_cast<double>(trial_[e.species]);
+    if (e.level < 0) return e.own_rate * entry_cells(e);
     const double donors = e.small ? live_above_all_[e.level + 1] : live_above_crit_[e.level + 1];
-    // A large species' conjugations use its count at the midpoint, like its leaped channels.
-    const double cells = e.small ? static_cast<double>(trial_[e.species]) : at_[e.species];
-    return (e.own_rate + conj_factor_ * donors) * cells;
+    return (e.own_rate + conj_factor_ * donors) * entry_cells(e);
 }
 
 void LeapPatch::refresh_level_sums() {
@@ -452,10 +466,9 @@ std::uint64_t LeapPatch::simulate_exact(double tau, Rng& rng, EventCounts& tally
         const ExactEntry& e = exact_entries_[pick];
         const int k = e.species;
         // Which of its channels: u is now below its rate; walk them in rate per cell.
-        const double cells = e.small ? static_cast<double>(trial_[k]) : at_[k];
-        double v = std::min(u, entry_rate_[pick]) / cells;
+        double v = std::min(u, entry_rate_[pick]) / entry_cells(e);
         int changed[2] = {-1, -1};
-        channels_of(k, e.small, e.small ? all_levels_.data() : crit_level_.data(), live_level_.data(),
+        channels_of(k, e.small, entry_levels(e), live_level_.data(),
                     [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
                         if (changed[0] != -1 || changed[1] != -1 || !(per_cell > 0)) return;
                         if (v >= per_cell) {
@@ -528,6 +541,7 @@ bool LeapPatch::try_leap(double tau, Rng& rng, EventCounts& tally_out, std::uint
     exact_events = exact;
     return true;
 }
+
 std::uint64_t LeapPatch::advance(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where,
                                  double duration, Rng& rng, EventCounts& counts) {
     const double Kp = K_ * where.capacity;

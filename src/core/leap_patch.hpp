@@ -106,7 +106,7 @@ private:
     // trait of level `level`, drawn in proportion to the active cells there".
     struct Channel {
         double rate;
-        double per_cell;        // at the leap's start
+        double per_cell;        // at the leap's start (the midpoint keeps it where it is constant)
         std::int32_t reactant;  // the cells the channel acts on
         std::int32_t consume;   // -1: none (else the reactant)
         std::int32_t produce;   // -1: none (or a whole-copy donor draw, see above)
@@ -149,6 +149,8 @@ private:
     bool try_leap(double tau, Rng& rng, EventCounts& tally, std::uint64_t& exact_events);
     void add_cells(int species, std::int64_t n, double tau, Rng& rng);  // now, or as arrivals
     std::uint64_t simulate_exact(double tau, Rng& rng, EventCounts& tally);
+    double entry_cells(const ExactEntry& e) const;
+    const std::uint8_t* entry_levels(const ExactEntry& e) const;
     double exact_rate(const ExactEntry& e) const;  // in the live state
     void refresh_level_sums();
     void refresh_after_change(int species);
@@ -187,7 +189,6 @@ private:
     std::vector<Channel> channels_;
     std::vector<ExactEntry> exact_entries_;
     std::vector<double> competition_;           // per cell competition rate of each trait (at at_)
-    double ncomp_ = 0.0;                        // the competing cells (at at_)
     double conj_factor_ = 0.0;                  // conjugation rate per recipient and donor cell
     std::vector<std::uint8_t> all_levels_;      // mask: every level
     std::vector<std::uint8_t> crit_level_;      // mask: donor levels with few cells
