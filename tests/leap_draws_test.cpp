@@ -133,7 +133,9 @@ TEST_CASE("Binomial sampler has the right mean and variance at very large n", "[
 }
 
 // The uniform split of the migration phase (n leavers over 4 or 8 directions): a multinomial
-// with equal cell probabilities. Every count sums to n; the first and the last direction
+// with equal cell probabilities, whose marginals are binomial and whose covariances are
+// -n p_i p_j (Feller 1968, ch. VI, the multinomial distribution; from memory). Every count
+// sums to n; the first and the last direction
 // each fit Binomial(n, 1/ways) (chi-squared, as above); two directions have the
 // multinomial's covariance -n / ways^2 (z-test with the sample covariance's standard error
 // from its fourth moments, approximated by sqrt(var_a var_b / draws)). A split that favoured
