@@ -38,7 +38,17 @@ struct ResumeOptions {
     bool quiet = false;
 };
 
+struct PredictOptions {
+    std::string scenario;
+    std::string model;  // "limit", "ode" or "" (limit for one patch, ode for a lattice)
+    std::vector<std::string> sets;
+    std::string out;  // "" = <scenario name>-predict in the current directory
+    bool overwrite = false;
+    bool quiet = false;
+};
+
 int run_command(const RunOptions& options);
+int predict_command(const PredictOptions& options);
 int resume_command(const ResumeOptions& options);
 int check_command(const CheckOptions& options);
 int demo_command(const DemoOptions& options);

@@ -44,6 +44,20 @@ int main(int argc, char** argv) {
     check_cmd->add_option("scenario", check.scenario, "Scenario file (TOML)")->required();
     check_cmd->add_option("--set", check.sets, "Override a scenario key (repeatable)")->type_name("KEY=VALUE");
 
+    PredictOptions predict;
+    auto* predict_cmd = app.add_subcommand(
+        "predict", "Theory beside a run: the K -> infinity exponent limit (one patch) or the deterministic model at this K");
+    predict_cmd->add_option("scenario", predict.scenario, "Scenario file (TOML)")->required();
+    predict_cmd->add_option("--model", predict.model,
+                            "limit: exponents on the t / ln K scale as K -> infinity (one patch; the default there); "
+                            "ode: the deterministic model in counts at the scenario's K, mutation as a source "
+                            "(any lattice; the default there)")
+        ->check(CLI::IsMember({"limit", "ode"}));
+    predict_cmd->add_option("--set", predict.sets, "Override a scenario key (repeatable)")->type_name("KEY=VALUE");
+    predict_cmd->add_option("--out", predict.out, "Output directory (default: <scenario name>-predict); may be a run's");
+    predict_cmd->add_flag("--overwrite", predict.overwrite, "Replace an earlier prediction of the same model in --out");
+    predict_cmd->add_flag("--quiet", predict.quiet, "Print nothing but errors");
+
     DemoOptions demo;
     demo.program = argv[0];
     auto* demo_cmd = app.add_subcommand("demo", "Run the bundled demo scenario into ./tessera-demo/");
@@ -84,6 +98,7 @@ int main(int argc, char** argv) {
         if (*run_cmd) return run_command(run);
         if (*resume_cmd) return resume_command(resume);
         if (*check_cmd) return check_command(check);
+        if (*predict_cmd) return predict_command(predict);
         if (*demo_cmd) return demo_command(demo);
         if (*render_cmd) return render_command(render);
         if (*view_cmd) return view_command(view);

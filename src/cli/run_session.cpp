@@ -17,6 +17,7 @@
 
 #include "cli/checkpoint_keeper.hpp"
 #include "cli/csv_output.hpp"
+#include "cli/output_directory.hpp"
 #include "cli/progress.hpp"
 #include "core/count_limit.hpp"
 #include "core/engine.hpp"
@@ -101,53 +102,6 @@ private:
     std::chrono::steady_clock::time_point last_;
     std::string buffer_;
 };
-
-bool holds_a_run(const fs::path& dir) {
-    return fs::exists(dir / "series.csv") || fs::exists(dir / "scenario.resolved.toml") ||
-           fs::exists(dir / "checkpoint.bin");
-}
-
-// Creates the directory and proves it writable before any simulation starts.
-bool prepare_directory(const fs::path& dir, bool overwrite) {
-    std::error_code ec;
-    if (fs::exists(dir, ec) && !fs::is_directory(dir, ec)) {
-        std::cerr << "error: --out " << dir.string() << ": exists and is not a directory\n";
-        return false;
-    }
-    if (holds_a_run(dir) && !overwrite) {
-        std::cerr << "error: --out " << dir.string()
-                  << ": already holds a run (series.csv, checkpoint.bin); choose another directory, continue it with "
-                     "'tessera resume "
-                  << dir.string() << "', or add --overwrite\n";
-        return false;
-    }
-    fs::create_directories(dir, ec);
-    if (ec) {
-        std::cerr << "error: --out " << dir.string() << ": cannot create the directory: " << ec.message() << "\n";
-        return false;
-    }
-    const fs::path probe = dir / ".tessera-write-test";
-    {
-        std::ofstream test(probe);
-        test << "ok";
-        test.flush();
-        if (!test) {
-            std::cerr << "error: --out " << dir.string() << ": the directory is not writable\n";
-            return false;
-        }
-    }
-    fs::remove(probe, ec);
-    // An old run's checkpoint must never be resumed over this run's outputs.
-    fs::remove(dir / "checkpoint.bin", ec);
-    return true;
-}
-
-bool write_text(const fs::path& file, const std::string& text) {
-    std::ofstream out(file, std::ios::binary);
-    out << text;
-    out.close();
-    return static_cast<bool>(out);
-}
 
 // Removes frames/frame_NNNNNN.png numbered `from` or later (written after a checkpoint, or
 // by an earlier run in an overwritten directory).
