@@ -81,6 +81,10 @@ TEST_CASE("lattices beyond memory are refused with the limit named") {
         "[rates]\nbirth_max = 5\n[lattice]\nwidth = 10000\nheight = 10000\n");
     CHECK_THAT(wide, Catch::Contains("1e+08 patches x 1e+06 traits"));
     CHECK_THAT(wide, Catch::Contains("accepted: patches x traits <= 1e9 (16 GB)"));
+    // The refusal says what it would take and what this machine has (issue 14): 1e14 counts
+    // of 16 + 64 bytes each are 8e15 bytes, 7.1 PiB.
+    CHECK_THAT(wide, Catch::Contains("it would need about 7.1 PiB of memory; this machine has "));
+    CHECK_THAT(errors_of("[lattice]\nwidth = 100000\nheight = 100000\n"), Catch::Contains("of memory; this machine has "));
     // The same through --set.
     CHECK_THAT(errors_of("", {"lattice.width=10000", "lattice.height=10000", "traits.dormancy.levels=10"}),
                Catch::Contains("patches x traits <= 1e9"));
@@ -147,4 +151,26 @@ TEST_CASE("values given with --set must be UTF-8 text") {
     CHECK_THAT(errors_of("", {"title=\xe2\x82"}), Catch::Contains("not valid UTF-8"));  // cut short
     CHECK(parse_scenario("", "ok.toml", {"title=caf\xc3\xa9 \xe2\x82\xac \xf0\x9f\xa6\xa0"}).title ==
           "caf\xc3\xa9 \xe2\x82\xac \xf0\x9f\xa6\xa0");
+}
+
+TEST_CASE("an empty scenario file, or one of comments only, is refused rather than run on defaults") {
+    namespace fs = std::filesystem;
+    const fs::path dir = fs::temp_directory_path() / "tessera-empty-scenario";
+    fs::create_directories(dir);
+    for (const char* text : {"", "\n\n", "# only a comment\n   # and another\n"}) {
+        const fs::path file = dir / "nothing.toml";
+        std::ofstream(file) << text;
+        try {
+            load_scenario(file.string());
+            FAIL("an empty scenario was accepted");
+        } catch (const ScenarioError& e) {
+            CHECK_THAT(e.what(), Catch::Contains(file.string()));
+            CHECK_THAT(e.what(), Catch::Contains("holds no settings"));
+            CHECK_THAT(e.what(), Catch::Contains("at least one setting"));
+        }
+    }
+    // One setting is enough.
+    std::ofstream(dir / "one.toml") << "title = \"x\"\n";
+    CHECK_NOTHROW(load_scenario((dir / "one.toml").string()));
+    fs::remove_all(dir);
 }

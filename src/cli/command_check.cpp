@@ -7,24 +7,14 @@
 #include <vector>
 
 #include "cli/commands.hpp"
+#include "core/memory_estimate.hpp"
 #include "core/trait_grid.hpp"
+#include "io/machine_memory.hpp"
 #include "cli/scenario_input.hpp"
 
 namespace tessera::cli {
 
 namespace {
-
-std::string bytes_text(double bytes) {
-    const char* units[] = {"B", "KiB", "MiB", "GiB", "TiB"};
-    int u = 0;
-    while (bytes >= 1024 && u < 4) {
-        bytes /= 1024;
-        ++u;
-    }
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.1f %s", bytes, units[u]);
-    return buf;
-}
 
 // Exact simulation rate of this machine, events per second per core (docs/performance.md).
 constexpr double events_per_core_second = 2e7;
@@ -67,8 +57,7 @@ int check_command(const CheckOptions& o) {
     const double cells = s.K * capacity_sum * std::max(0.0, r.birth_max - r.death) / std::max(r.competition, 1e-9);
     const double events_per_time = cells * (2 * r.birth_max + r.transfer);
     const double cores = s.threads > 0 ? s.threads : tbb::info::default_concurrency();
-    const double memory = static_cast<double>(patches) * traits.size() * (16.0 + 2.0 * s.neighbourhood * 8.0) +
-                          static_cast<double>(patches) * 96.0;
+    const double memory = lattice_memory_bytes(static_cast<double>(patches), traits.size(), s.neighbourhood);
     std::printf("  estimate     ~%.2g cells, ~%.2g events per unit time, memory ~%s\n", cells, events_per_time,
                 bytes_text(memory).c_str());
     std::printf("               exact simulation ~%.2g s of wall time on %g cores (rough)\n",

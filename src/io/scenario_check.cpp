@@ -5,7 +5,9 @@
 #include <map>
 
 #include "core/count_limit.hpp"
+#include "core/memory_estimate.hpp"
 #include "core/trait_grid.hpp"
+#include "io/machine_memory.hpp"
 #include "io/scenario_findings.hpp"
 #include "io/text_help.hpp"
 
@@ -243,20 +245,26 @@ void check_scenario(const Scenario& s, Findings& f) {
     check_schedules(s, f);
     check_capacities(s, f);
     const double patches = static_cast<double>(s.width) * s.height;
+    const double traits = static_cast<double>(s.dormancy_axis.levels) * s.transfer_axis.levels;
+    // What the state would take, and what this machine has, so a refused size can be judged.
+    const auto memory_note = [&] {
+        const double need = lattice_memory_bytes(patches, traits, s.neighbourhood);
+        const double have = machine_memory_bytes();
+        return " (it would need about " + bytes_text(need) + " of memory" +
+               (have > 0 ? "; this machine has " + bytes_text(have) : std::string()) + ")";
+    };
     if (patches > 1e8) {
         f.add(f.place_any({"lattice.width", "lattice.map", "lattice"}), "lattice.width",
-              "the lattice has " + format_number(patches) + " patches; accepted: at most 1e8 patches");
+              "the lattice has " + format_number(patches) + " patches" + memory_note() +
+                  "; accepted: at most 1e8 patches");
     } else if (axis_ok(s.dormancy_axis) && axis_ok(s.transfer_axis)) {
         // The state is one active and one dormant 8-byte count per trait per patch, and the
         // exact spatial engine keeps as much again: refuse what no machine of ours can hold.
-        const double traits = static_cast<double>(s.dormancy_axis.levels) * s.transfer_axis.levels;
         if (patches * traits > state_count_limit)
             f.add(f.place_any({"lattice.width", "lattice.map", "traits.dormancy", "traits"}), "lattice",
                   format_number(patches) + " patches x " + format_number(traits) + " traits = " +
-                      format_number(patches * traits) + " counts per compartment (" +
-                      format_number(std::ceil(patches * traits * 16 / 1e9)) +
-                      " GB of state) is too large; accepted: patches x traits <= 1e9 (16 GB), with fewer trait "
-                      "levels or a smaller lattice");
+                      format_number(patches * traits) + " counts per compartment is too large" + memory_note() +
+                      "; accepted: patches x traits <= 1e9 (16 GB), with fewer trait levels or a smaller lattice");
     }
 }
 

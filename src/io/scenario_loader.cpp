@@ -46,6 +46,19 @@ Scenario load_scenario(const std::string& path, const std::vector<std::string>& 
     }
     std::ostringstream text;
     text << in.rdbuf();
+    // An empty file, or one of comments only, is almost always the wrong file: refuse it rather
+    // than run every default. (parse_scenario itself accepts empty text, for --set-only tests.)
+    bool empty = false;
+    try {
+        empty = toml::parse(text.str(), path).empty();
+    } catch (const toml::parse_error&) {
+        // parse_scenario reports it, with its line.
+    }
+    if (empty) {
+        throw ScenarioError({{path, 0, "",
+                              "the file holds no settings (it is empty or only comments); accepted: a scenario with "
+                              "at least one setting, e.g. title = \"...\" (docs/formats.md lists every key)"}});
+    }
     return parse_scenario(text.str(), path, overrides);
 }
 
