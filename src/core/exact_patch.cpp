@@ -1,3 +1,5 @@
+// The exact direct-method engine of one patch: every local event, the kept sums that make
+// each one cost the same whatever the number of traits, and the choice of who takes part.
 #include "core/exact_patch.hpp"
 
 #include <algorithm>
@@ -8,106 +10,7 @@ namespace tessera {
 namespace {
 // Incremental floating sums drift by rounding; they are rebuilt from the counts this often.
 constexpr std::uint64_t resum_interval = 1u << 16;
-
-// The threshold t such that, for a draw r of the Rng, (r >> 11) < t exactly when
-// rng.uniform() < p, i.e. k * 2^-53 < p for the 53-bit integer k = r >> 11: t = ceil(p 2^53).
-// The integer compare makes the same decision as the floating one, with fewer instructions.
-std::uint64_t threshold53(double p) {
-    if (!(p > 0)) return 0;
-    if (p >= 1) return std::uint64_t{1} << 53;
-    return static_cast<std::uint64_t>(std::ceil(std::ldexp(p, 53)));
-}
-
-bool all_equal(const std::vector<double>& v) {
-    for (double x : v) {
-        if (x != v.front()) return false;
-    }
-    return true;
-}
 }  // namespace
-
-ExactPatch::ExactPatch(const TraitGrid& grid, const RateTable& rates, double K)
-    : grid_(grid),
-      rates_(rates),
-      K_(K),
-      nx_(grid.x_levels()),
-      ny_(grid.y_levels()),
-      x_of_(grid.size()),
-      y_of_(grid.size()),
-      q_threshold_(grid.size()),
-      birth_rows_(nx_),
-      death_rows_(nx_),
-      competition_rows_(nx_),
-      active_rows_(nx_),
-      dormant_rows_(nx_),
-      transfer_level_(ny_) {
-    for (int i = 0; i < grid.size(); ++i) {
-        x_of_[i] = grid.x_level(i);
-        y_of_[i] = grid.y_level(i);
-        q_threshold_[i] = threshold53(rates.dormancy_probability[i]);
-    }
-    mu_threshold_ = threshold53(rates.mutation_probability);
-    death_uniform_ = all_equal(rates.death);
-    competition_uniform_ = all_equal(rates.competition);
-    death_rate_ = rates.death.front();
-    competition_rate_ = rates.competition.front();
-}
-
-void ExactPatch::attach(std::int64_t* active, std::int64_t* dormant, const PatchConditions& where) {
-    A_ = active;
-    D_ = dormant;
-    const double Kp = K_ * where.capacity;
-    inv_Kp_ = Kp > 0 ? 1.0 / Kp : 0.0;
-    stress_ = where.stress;
-    const double resus = rates_.resuscitation * where.resuscitation;
-    dormant_rate_ = rates_.dormant_death + resus;
-    dormant_death_share_ = dormant_rate_ > 0 ? rates_.dormant_death / dormant_rate_ : 0.0;
-    death_per_cell_ = death_rate_ + stress_;
-    // With trait-independent natural death, natural death and stress are one channel of
-    // per-cell rate d + stress whose cell is uniform among the active cells.
-    inv_death_cell_ = death_per_cell_ > 0 ? 1.0 / death_per_cell_ : 0.0;
-    competition_scale_ = (competition_uniform_ ? competition_rate_ : 1.0) * inv_Kp_;
-    transfer_density_ = rates_.transfer * inv_Kp_;
-    frequency_ = rates_.transfer_form == TransferForm::frequency;
-    count_dormant_ = rates_.competition_counts_dormant;
-    recompute_sums();
-}
-
-void ExactPatch::recompute_sums() {
-    active_total_ = dormant_total_ = 0;
-    birth_sum_ = death_sum_ = competition_sum_ = 0.0;
-    for (int l = 0; l < ny_; ++l) transfer_level_[l] = 0;
-    for (int x = 0; x < nx_; ++x) {
-        double b = 0, d = 0, c = 0;
-        std::int64_t dor = 0, act = 0;
-        for (int y = 0; y < ny_; ++y) {
-            const int i = x * ny_ + y;
-            const double a = static_cast<double>(A_[i]);
-            b += rates_.birth[i] * a;
-            d += rates_.death[i] * a;
-            c += rates_.competition[i] * a;
-            dor += D_[i];
-            act += A_[i];
-            transfer_level_[y] += A_[i];
-        }
-        birth_rows_[x] = b;
-        death_rows_[x] = d;
-        competition_rows_[x] = c;
-        dormant_rows_[x] = dor;
-        active_rows_[x] = act;
-        active_total_ += act;
-        birth_sum_ += b;
-        death_sum_ += d;
-        competition_sum_ += c;
-        dormant_total_ += dor;
-    }
-    transfer_pairs_ = 0;
-    std::int64_t below = 0;
-    for (int l = 0; l < ny_; ++l) {
-        transfer_pairs_ += static_cast<uint128>(below) * static_cast<uint128>(transfer_level_[l]);
-        below += transfer_level_[l];
-    }
-}
 
 void ExactPatch::add_active(int i, std::int64_t delta) {
     const int x = x_of_[i];
@@ -388,75 +291,6 @@ std::uint64_t ExactPatch::advance(std::int64_t* active, std::int64_t* dormant,
 void ExactPatch::fire(Rng& rng, EventCounts& counts) {
     const ChannelRates r = channel_rates();
     if (r.total > 0) execute(rng.uniform() * r.total, r, rng, counts);
-}
-
-// --- validate mode ------------------------------------------------------------------------
-std::string ExactPatch::check_kept_sums() const {
-    if (!A_ || !D_) return "";
-    std::string problems;
-    auto integer = [&](const char* what, std::int64_t kept, std::int64_t fresh) {
-        if (kept != fresh)
-            problems += std::string(problems.empty() ? "" : "; ") + what + " kept " + std::to_string(kept) +
-                        ", recomputed " + std::to_string(fresh);
-    };
-    // Incremental updates since the last rebuild (at most resum_interval events) round each
-    // addition by a relative 1e-16 of the sum at the time; even a population that falls from
-    // 65536 cells to none leaves under 1e-6 of one cell's rate. One cell missed from a sum
-    // is a whole rate off.
-    auto floating = [&](const char* what, double kept, double fresh, double scale) {
-        if (!(std::fabs(kept - fresh) <= 1e-6 * std::max(std::fabs(fresh), scale)))
-            problems += std::string(problems.empty() ? "" : "; ") + what + " kept " + std::to_string(kept) +
-                        ", recomputed " + std::to_string(fresh);
-    };
-    const double birth_scale = *std::max_element(rates_.birth.begin(), rates_.birth.end());
-    const double death_scale = *std::max_element(rates_.death.begin(), rates_.death.end());
-    const double competition_scale = *std::max_element(rates_.competition.begin(), rates_.competition.end());
-    std::int64_t active = 0, dormant = 0, below = 0;
-    uint128 pairs = 0;
-    double birth = 0, death = 0, competition = 0;
-    std::vector<std::int64_t> level(static_cast<std::size_t>(ny_), 0);
-    for (int x = 0; x < nx_; ++x) {
-        double b = 0, d = 0, c = 0;
-        std::int64_t act = 0, dor = 0;
-        for (int y = 0; y < ny_; ++y) {
-            const int i = x * ny_ + y;
-            if (A_[i] < 0 || D_[i] < 0)
-                integer(("count of trait " + std::to_string(i)).c_str(), std::min(A_[i], D_[i]), 0);
-            b += rates_.birth[i] * static_cast<double>(A_[i]);
-            d += rates_.death[i] * static_cast<double>(A_[i]);
-            c += rates_.competition[i] * static_cast<double>(A_[i]);
-            act += A_[i];
-            dor += D_[i];
-            level[static_cast<std::size_t>(y)] += A_[i];
-        }
-        const std::string row = " of row " + std::to_string(x);
-        integer(("active cells" + row).c_str(), active_rows_[x], act);
-        integer(("dormant cells" + row).c_str(), dormant_rows_[x], dor);
-        floating(("birth sum" + row).c_str(), birth_rows_[x], b, birth_scale);
-        if (!death_uniform_) floating(("death sum" + row).c_str(), death_rows_[x], d, death_scale);
-        if (!competition_uniform_) floating(("competition sum" + row).c_str(), competition_rows_[x], c, competition_scale);
-        active += act;
-        dormant += dor;
-        birth += b;
-        death += d;
-        competition += c;
-    }
-    for (int l = 0; l < ny_; ++l) {
-        integer(("active cells at transfer level " + std::to_string(l)).c_str(), transfer_level_[l],
-                level[static_cast<std::size_t>(l)]);
-        pairs += static_cast<uint128>(below) * static_cast<uint128>(level[static_cast<std::size_t>(l)]);
-        below += level[static_cast<std::size_t>(l)];
-    }
-    integer("active cells", active_total_, active);
-    integer("dormant cells", dormant_total_, dormant);
-    if (transfer_pairs_ != pairs)
-        problems += std::string(problems.empty() ? "" : "; ") + "conjugation pairs kept " +
-                    std::to_string(static_cast<double>(transfer_pairs_)) + ", recomputed " +
-                    std::to_string(static_cast<double>(pairs));
-    floating("birth sum", birth_sum_, birth, birth_scale);
-    if (!death_uniform_) floating("death sum", death_sum_, death, death_scale);
-    if (!competition_uniform_) floating("competition sum", competition_sum_, competition, competition_scale);
-    return problems;
 }
 
 int ExactPatch::active_cell(std::uint64_t rank) const { return pick_cell(active_rows_.data(), A_, rank); }
