@@ -44,7 +44,7 @@ void LeapPatch::build_channels() {
             for (int l = level + 1; level >= 0 && l < ny_; ++l) donors += level_at_[l];
             a0_ += (own + conj_factor_ * donors) * cells;
             entry_of_[k] = static_cast<std::int32_t>(exact_entries_.size());
-            exact_entries_.push_back({k, level, true, own});
+            exact_entries_.push_back({k, level, true, own, leave_rate(k)});
             continue;
         }
         // Large: leaped, except its conjugations into levels with few donors.
@@ -117,7 +117,10 @@ void LeapPatch::set_midpoint(double tau) {
         c.rate = per_cell * at_[i];
     }
     for (ExactEntry& e : exact_entries_) {
-        if (e.small) e.own_rate = own_rate(e.species);
+        if (e.small) {
+            e.own_rate = own_rate(e.species);
+            e.leave_rate = leave_rate(e.species);
+        }
     }
 }
 

@@ -3,6 +3,7 @@
 #include "core/leap_patch.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <limits>
 
 #include "core/leap_channels.hpp"
@@ -46,6 +47,10 @@ void LeapPatch::change(int species, std::int64_t by) {
 // times of the leap, so that they divide, convert and die from the moment they appear
 // (unless they are more than critical_cells at once).
 void LeapPatch::add_cells(int species, std::int64_t n, double tau, Rng& rng) {
+    if (is_fast(species)) {
+        fast_arrivals_[species] += n;  // drawn in closed form at the end (leap_fast_species.cpp)
+        return;
+    }
     if (x_[species] >= settings_.critical_cells || exact_entries_.empty()) {
         trial_[species] += n;
         return;
@@ -73,6 +78,7 @@ const std::uint8_t* LeapPatch::entry_levels(const ExactEntry& e) const {
 }
 
 double LeapPatch::exact_rate(const ExactEntry& e) const {
+    if (e.fast) return 0.0;  // not simulated event by event in this leap
     if (e.level < 0) return e.own_rate * entry_cells(e);
     const double donors = e.small ? live_above_all_[e.level + 1] : live_above_crit_[e.level + 1];
     return (e.own_rate + conj_factor_ * donors) * entry_cells(e);
@@ -173,6 +179,17 @@ std::uint64_t LeapPatch::simulate_exact(double tau, Rng& rng, EventCounts& tally
         // Rounding left v past the last channel, or the drawn conjugation has no donor left.
         if (changed[0] < 0 && changed[1] < 0) continue;
         if (changed[0] >= 0) change(changed[0], -1);
+        if (changed[1] >= 0 && is_fast(changed[1])) {
+            // A cell placed in a fast species at a known time: it stays to the end of the leap
+            // with probability e^{-delta (tau - t)} (leap_fast_species.cpp).
+            const int f = changed[1];
+            const double leave = exact_entries_[entry_of_[f]].leave_rate;
+            const double stay = std::exp(-leave * (tau - t));
+            ++fast_timed_[f];
+            fast_exposure_[f] += 1 - stay;
+            if (rng.uniform() < stay) ++fast_timed_alive_[f];
+            changed[1] = -1;
+        }
         if (changed[1] >= 0) change(changed[1], +1);
         for (int c : changed) {
             if (c >= 0) refresh_after_change(c);

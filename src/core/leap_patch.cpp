@@ -96,6 +96,7 @@ double LeapPatch::total_rate(const std::int64_t* active, const std::int64_t* dor
 }
 
 bool LeapPatch::try_leap(double tau, Rng& rng, EventCounts& tally_out, std::uint64_t& exact_events) {
+    choose_fast(tau);
     trial_ = x_;
     arrivals_.clear();
     late_.clear();
@@ -132,6 +133,7 @@ bool LeapPatch::try_leap(double tau, Rng& rng, EventCounts& tally_out, std::uint
         if (v < 0) return false;  // before the exact part, whose rates need counts >= 0
     }
     const std::uint64_t exact = exact_entries_.empty() ? 0 : simulate_exact(tau, rng, t);
+    if (!fast_.empty()) resolve_fast(tau, rng, t);
     for (const auto& [species, n] : late_) trial_[species] += n;
     for (std::int64_t v : trial_) {
         if (v < 0) return false;

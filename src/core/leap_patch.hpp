@@ -66,6 +66,16 @@ struct LeapSettings {
     double exact_below = 10.0;         // SSA instead when tau < exact_below / a0 (CGP 2006)
     double exact_events = 100.0;       // expected events of one such SSA stretch
     double exact_per_leap = 1000.0;    // at most about this many exact events inside one leap
+    // A small species whose cells leave (die, convert, go dormant) at a per-cell rate delta
+    // with delta * tau >= fast_turnover in a leap is "fast": its end-of-leap state is drawn
+    // from the immigration-death law in O(1) draws instead of simulated event by event
+    // (docs/model.md section 3). At 50, a cell present at the start survives the leap with
+    // probability e^-50, and the law is the stationary one to within that.
+    double fast_turnover = 50.0;
+    // ... as long as its cells divide rarely before they leave (birth <= this x delta): the
+    // law draws their few births as a Poisson number over the expected cell time, which is
+    // exact only as birth / delta -> 0.
+    double fast_birth_ratio = 1e-2;
 };
 
 // What the engine did (for tests, benchmarks and docs/performance.md).
@@ -75,6 +85,7 @@ struct LeapStats {
     std::uint64_t critical_events = 0;   // exact events of critical channels inside leaps
     std::uint64_t exact_stretches = 0;   // hand-overs to ExactPatch
     std::uint64_t exact_events = 0;      // events those stretches simulated
+    std::uint64_t fast_resolutions = 0;  // fast species drawn from the immigration-death law
 };
 
 class LeapPatch {
@@ -123,6 +134,8 @@ private:
         std::int32_t level;  // its transfer level (active), -1 (dormant)
         bool small;
         double own_rate;     // per cell, the channels other than conjugation (small only)
+        double leave_rate = 0.0;  // per cell, every channel that consumes the cell (small only)
+        bool fast = false;        // this leap draws it from the immigration-death law
     };
     // A cell that a leaped channel places in a small species, at a uniform time of the leap.
     struct Arrival {
@@ -157,6 +170,14 @@ private:
     void refresh_all_rates();
     void change(int species, std::int64_t by);     // trial_ and live_level_ together
     int donor_of_level(int level, Rng& rng) const;
+    // Fast small species (LeapSettings::fast_turnover): their per-cell leave rate at at_, the
+    // choice for a leap of length tau, and their end-of-leap states (leap_fast_species.cpp).
+    double leave_rate(int species) const;
+    bool may_be_fast(const ExactEntry& e) const;
+    void choose_fast(double tau);
+    bool is_fast(int species) const { return fast_.empty() ? false : fast_[species] != 0; }
+    void resolve_fast(double tau, Rng& rng, EventCounts& tally);
+    void add_products(int produce, int level, Kind kind, std::int64_t n, Rng& rng);
     void tally(Kind kind, std::int64_t k, EventCounts& c) const;
 
     const TraitGrid& grid_;
@@ -195,6 +216,12 @@ private:
     std::vector<std::int32_t> entry_of_;        // species -> its exact entry, or -1
     std::vector<Arrival> arrivals_;
     std::vector<std::pair<std::int32_t, std::int64_t>> late_;  // floods into small species
+    std::vector<std::uint8_t> fast_;            // species -> fast in this leap (empty: none)
+    std::vector<std::pair<double, double>> fast_candidates_;  // step_size: (leave rate, exact rate)
+    std::vector<std::int64_t> fast_arrivals_;   // cells placed in a fast species at uniform times
+    std::vector<double> fast_exposure_;         // sum of (1 - e^{-delta (tau - t)}) over timed arrivals
+    std::vector<std::int64_t> fast_timed_;      // cells placed in it at known times (exact part)
+    std::vector<std::int64_t> fast_timed_alive_; // of those, survivors drawn one by one
     std::vector<double> entry_rate_;            // work space of simulate_exact
     double exact_total_ = 0.0;                  // their sum
     std::vector<double> live_level_;            // L_l during simulate_exact

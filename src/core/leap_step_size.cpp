@@ -45,16 +45,25 @@ double LeapPatch::step_size() {
         if (c.kind == Kind::conjugation) level_bounded_[c.level] = 1;
         account(c.rate, c.consume, c.produce, c.level, c.kind);
     }
+    // The exact part's rate, apart for species that may be fast (leap_fast_species.cpp):
+    // those cost O(1) draws per leap when the leap is long enough for them.
     double exact_rate = 0.0;
+    fast_candidates_.clear();
     for (const ExactEntry& e : exact_entries_) {
         const int k = e.species;
         const double cells = at_[k];
         if (!(cells > 0)) continue;
+        double rate = 0.0;
         channels_of(k, e.small, entry_levels(e), level_at_.data(),
                     [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
-                        exact_rate += per_cell * cells;
+                        rate += per_cell * cells;
                         account(per_cell * cells, consumes ? k : -1, produce, level, kind);
                     });
+        if (may_be_fast(e)) {
+            fast_candidates_.push_back({e.leave_rate, rate});
+        } else {
+            exact_rate += rate;
+        }
     }
     // Whole-copy conjugations won by level l go to its traits in proportion to their cells.
     for (int l = 0; l < ny_; ++l) {
@@ -101,7 +110,21 @@ double LeapPatch::step_size() {
     bound_by(na + nd, eps_over_g_[0], mu_a + mu_d, var_a + var_d);
     // The exact part's work per leap stays bounded (a recipient of 1e15 cells facing a few
     // donors at density-dependent rates would otherwise make ~1e9 exact events in a leap).
-    if (exact_rate > 0) tau = std::min(tau, settings_.exact_per_leap / exact_rate);
+    // A candidate that the resulting leap is too short for is simulated exactly after all, and
+    // its events bound the leap too; tau only shrinks, so this ends within as many rounds as
+    // there are candidates.
+    const double tau_others = tau;
+    for (bool changed = true; changed;) {
+        changed = false;
+        tau = exact_rate > 0 ? std::min(tau_others, settings_.exact_per_leap / exact_rate) : tau_others;
+        for (auto& [leave, rate] : fast_candidates_) {
+            if (rate > 0 && leave * tau < settings_.fast_turnover) {
+                exact_rate += rate;
+                rate = 0.0;
+                changed = true;
+            }
+        }
+    }
     return tau;
 }
 
