@@ -24,5 +24,6 @@ inline constexpr Rgb8 wall_stripe{96, 90, 80};       // its hatching, at 4 px pe
 inline constexpr Rgb8 panel_colour{34, 36, 44};      // side panel background
 inline constexpr Rgb8 text_colour{228, 228, 232};
 inline constexpr Rgb8 muted_text_colour{160, 162, 172};
+inline constexpr Rgb8 schedule_on_colour{255, 146, 92};  // a schedule in force, in headers
 
 }  // namespace tessera

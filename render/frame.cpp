@@ -2,6 +2,8 @@
 
 #include <algorithm>
 #include <cstdio>
+#include <string>
+#include <vector>
 
 #include "render/canvas.hpp"
 #include "render/colour_ramps.hpp"
@@ -25,7 +27,9 @@ sf::Image compose_frame(const FieldSnapshot& s, FieldView view, int scale, const
     const int text_w = frame_panel_width - 2 * pad;
 
     // Measure the panel first so the frame is exactly as tall as it needs.
-    const int stamp_h = font.line_height(13) + 8;
+    const std::vector<ScheduleStatus> schedules = schedule_status(s);
+    const int schedule_h = static_cast<int>(schedules.size()) * (font.line_height(13) + 2);
+    const int stamp_h = font.line_height(13) + 8 + schedule_h;
     const int legend_h = draw_legend(nullptr, font, 0, 0, text_w, s, view, palette);
     const int height = std::max(lh, pad + stamp_h + legend_h + pad);
 
@@ -34,6 +38,12 @@ sf::Image compose_frame(const FieldSnapshot& s, FieldView view, int scale, const
     paste(frame, lattice, 0, 0);
     int y = pad;
     font.draw(frame, panel_x + pad, y, time_stamp(s.t, s.t_logK), 13, to_sf(text_colour));
+    // Schedules in force are named in the header, in the accent colour.
+    int sy = y + font.line_height(13) + 2;
+    for (const ScheduleStatus& sc : schedules) {
+        font.draw(frame, panel_x + pad, sy, sc.text(), 13, to_sf(sc.on ? schedule_on_colour : muted_text_colour));
+        sy += font.line_height(13) + 2;
+    }
     y += stamp_h;
     draw_legend(&frame, font, panel_x + pad, y, text_w, s, view, palette);
     return frame;

@@ -5,6 +5,7 @@
 #include <string>
 #include <vector>
 
+#include "core/habitat_timeline.hpp"
 #include "render/canvas.hpp"
 #include "render/colour_ramps.hpp"
 #include "render/rasteriser.hpp"
@@ -50,6 +51,16 @@ struct Pen {
                 if ((i + j) % 4 == 0) image->setPixel(static_cast<unsigned>(x + dx + i), static_cast<unsigned>(y + dy + j), to_sf(wall_stripe));
             }
         }
+    }
+    // A swatch of `colour` drawn as an outline around an empty patch: how the lattice marks
+    // habitat classes in the views of cells.
+    void outlined(Rgb8 colour, const std::string& label) {
+        const int side = 14;
+        rect(0, 1, side, side, empty_colour);
+        frame(0, 1, side, side, colour);
+        frame(1, 2, side - 2, side - 2, colour);
+        text(label, text_size, text_colour, side + 8);
+        y += std::max(side + 2, font.line_height(text_size)) + 3;
     }
     // A swatch followed by a label on the same line.
     void keyed(Rgb8 colour, const std::string& label, bool wall = false) {
@@ -137,17 +148,42 @@ void habitat_list(Pen& pen, const FieldSnapshot& s) {
     for (std::size_t c = 0; c < s.scenario.habitats.size(); ++c) {
         const Habitat& h = s.scenario.habitats[c];
         const PatchConditions& now = s.conditions[c];
-        Rgb8 colour = {128, 128, 128};
-        if (h.colour.size() == 7 && h.colour[0] == '#') {
-            const auto v = std::stoul(h.colour.substr(1), nullptr, 16);
-            colour = {static_cast<std::uint8_t>(v >> 16), static_cast<std::uint8_t>(v >> 8), static_cast<std::uint8_t>(v)};
-        }
-        pen.keyed(colour, h.name, now.capacity <= 0);
+        pen.keyed(habitat_colour(h.colour), h.name, now.capacity <= 0);
         pen.line("   capacity " + number(now.capacity) + ", stress " + number(now.stress), small_size, muted_text_colour);
     }
 }
 
+// The classes outlined on the lattice (every habitable class but the first), each with its
+// conditions now, so a pulse shows as a change of its line. Always the same lines, so frames
+// keep their size.
+void outlined_habitats(Pen& pen, const FieldSnapshot& s) {
+    bool any = false;
+    for (std::size_t c = 1; c < s.scenario.habitats.size(); ++c) {
+        const Habitat& h = s.scenario.habitats[c];
+        if (h.capacity <= 0) continue;  // walls are hatched, not outlined
+        if (!any) {
+            pen.y += 4;
+            pen.line("habitats (outlined on the lattice)", small_size, muted_text_colour);
+            any = true;
+        }
+        const PatchConditions& now = s.conditions[c];
+        pen.outlined(habitat_colour(h.colour), h.name);
+        std::string what = "   capacity " + number(now.capacity) + ", stress " + number(now.stress);
+        if (now.resuscitation != 1.0) what += ", resusc. x" + number(now.resuscitation);
+        pen.line(what, small_size, muted_text_colour);
+    }
+}
+
 }  // namespace
+
+std::vector<ScheduleStatus> schedule_status(const FieldSnapshot& s) {
+    std::vector<ScheduleStatus> out;
+    const HabitatTimeline timeline(s.scenario);
+    for (std::size_t i = 0; i < s.scenario.schedules.size(); ++i) {
+        out.push_back({s.scenario.schedule_name(i), timeline.on(i, s.t)});
+    }
+    return out;
+}
 
 std::vector<int> legend_fill_traits(const FieldSnapshot& s) {
     // Count the patches each trait dominates; the top three, most patches first, ties to
@@ -199,6 +235,9 @@ int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const
     const bool listed_wall = view == FieldView::habitat &&
                              std::any_of(s.conditions.begin(), s.conditions.end(), [](const PatchConditions& c) { return c.capacity <= 0; });
     if (!listed_wall) pen.keyed(wall_colour, "wall (capacity 0)", true);
+    if (s.scenario.habitat_outlines && view != FieldView::habitat && view != FieldView::stress) {
+        outlined_habitats(pen, s);
+    }
     return pen.y - y;
 }
 

@@ -7,6 +7,7 @@
 
 #include <SFML/Graphics/Image.hpp>
 
+#include <string>
 #include <vector>
 
 #include "render/field_snapshot.hpp"
@@ -20,6 +21,15 @@ namespace tessera {
 // returns the height it takes. With `image == nullptr` it only measures.
 int draw_legend(sf::Image* image, Typeface& font, int x, int y, int width, const FieldSnapshot& s, FieldView view,
                 const TraitPalette& palette);
+
+// Every [[schedule]] with whether it is in force at the snapshot's time, for the header of a
+// frame (all of them, on or off, so frames keep their size).
+struct ScheduleStatus {
+    std::string name;
+    bool on = false;
+    std::string text() const { return name + (on ? ": ON" : ": off"); }
+};
+std::vector<ScheduleStatus> schedule_status(const FieldSnapshot& s);
 
 // Swatch side in the trait grid legend, exposed for tests that look for the swatches.
 inline constexpr int legend_swatch = 22;

@@ -10,6 +10,10 @@ namespace tessera {
 
 namespace {
 
+Rgb8 mix(Rgb8 under, Rgb8 over, double a) { return from_sf(tessera::mix(to_sf(under), to_sf(over), a)); }
+
+}  // namespace
+
 Rgb8 habitat_colour(const std::string& hex) {
     // "#rrggbb"; the loader validates it, anything else draws mid grey.
     if (hex.size() != 7 || hex[0] != '#') return {128, 128, 128};
@@ -21,7 +25,44 @@ Rgb8 habitat_colour(const std::string& hex) {
     }
 }
 
-Rgb8 mix(Rgb8 under, Rgb8 over, double a) { return from_sf(tessera::mix(to_sf(under), to_sf(over), a)); }
+namespace {
+
+// Habitat outlines (Scenario::habitat_outlines): in the views of cells a patch's class is not
+// visible, so every patch of a class other than the first (the background) gets a line of its
+// class colour along each side that faces a habitable patch of another class, with a dark
+// line inside it at scales of 6 and more so it reads over bright and dark patches alike.
+// Walls are hatched already and the lattice edge needs no line. Below scale 3 a line would
+// cover most of a patch, so there are none.
+void draw_outlines(sf::Image& image, const FieldSnapshot& s, int scale) {
+    if (scale < 3) return;
+    const auto& cls = s.scenario.habitat_of_patch;
+    const sf::Color dark = to_sf(empty_colour);
+    for (int row = 0; row < s.height; ++row) {
+        for (int col = 0; col < s.width; ++col) {
+            const std::size_t p = static_cast<std::size_t>(row) * s.width + col;
+            if (cls[p] == 0 || is_wall(s, p)) continue;
+            const sf::Color line = to_sf(habitat_colour(s.scenario.habitats[cls[p]].colour));
+            const int x = col * scale, y = row * scale;
+            const int dc[4] = {-1, 1, 0, 0}, dr[4] = {0, 0, -1, 1};
+            for (int side = 0; side < 4; ++side) {
+                const int c = col + dc[side], r = row + dr[side];
+                if (c < 0 || r < 0 || c >= s.width || r >= s.height) continue;
+                const std::size_t q = static_cast<std::size_t>(r) * s.width + c;
+                if (cls[q] == cls[p] || is_wall(s, q)) continue;
+                for (int depth = 0; depth < (scale >= 6 ? 2 : 1); ++depth) {
+                    const sf::Color colour = depth == 0 ? line : dark;
+                    for (int i = 0; i < scale; ++i) {
+                        // Sides: left/right run down the patch, top/bottom across it.
+                        const int px = side == 0 ? x + depth : side == 1 ? x + scale - 1 - depth : x + i;
+                        const int py = side == 2 ? y + depth : side == 3 ? y + scale - 1 - depth : y + i;
+                        if (depth == 1 && (i == 0 || i == scale - 1)) continue;  // keep the corners in colour
+                        image.setPixel(static_cast<unsigned>(px), static_cast<unsigned>(py), colour);
+                    }
+                }
+            }
+        }
+    }
+}
 
 }  // namespace
 
@@ -107,6 +148,9 @@ sf::Image rasterise(const FieldSnapshot& s, FieldView view, int scale, const Tra
                 }
             }
         }
+    }
+    if (s.scenario.habitat_outlines && view != FieldView::habitat && view != FieldView::stress) {
+        draw_outlines(image, s, scale);
     }
     return image;
 }

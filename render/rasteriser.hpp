@@ -6,6 +6,7 @@
 #include <SFML/Graphics/Image.hpp>
 
 #include <cstddef>
+#include <string>
 
 #include "render/colour_lab.hpp"
 #include "render/field_snapshot.hpp"
@@ -37,11 +38,15 @@ Rgb8 fill_shade(Rgb8 full, double fill);
 
 bool is_wall(const FieldSnapshot& s, std::size_t patch);
 
+// A habitat class's "#rrggbb" colour (the loader checked it; anything else is mid grey).
+Rgb8 habitat_colour(const std::string& hex);
+
 // The colour of one patch in one view (walls excluded: they are drawn as a pattern).
 Rgb8 patch_colour(const FieldSnapshot& s, std::size_t patch, FieldView view, const TraitPalette& palette);
 
 // The lattice, width*scale x height*scale pixels, top row first. Walls are wall_colour,
-// hatched with wall_stripe along diagonals when scale >= 4.
+// hatched with wall_stripe along diagonals when scale >= 4. In the views of cells, classes
+// other than the first are outlined in their colour (scale >= 3; Scenario::habitat_outlines).
 sf::Image rasterise(const FieldSnapshot& s, FieldView view, int scale, const TraitPalette& palette);
 
 }  // namespace tessera

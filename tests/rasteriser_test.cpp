@@ -142,3 +142,69 @@ TEST_CASE("the brightness strips show the traits dominating most patches, most f
     std::fill(s.dormant.begin(), s.dormant.end(), 0);
     CHECK(legend_fill_traits(s) == std::vector<int>{s.grid.index(1, 1)});  // empty: the middle trait
 }
+
+// Habitat outlines (issue 14): a 3 x 1 lattice of classes [open][treated][open]; the treated
+// patch gets a line of its class colour along both sides that face the open patches, with a
+// dark line inside it at scale 6, in the views of cells only, and not with the setting off.
+TEST_CASE("habitat classes other than the first are outlined in the views of cells") {
+    Scenario sc;
+    sc.K = 100;
+    sc.width = 3;
+    sc.height = 1;
+    Habitat open, treated;
+    treated.name = "treated";
+    treated.colour = "#8fa8d8";
+    sc.habitats = {open, treated};
+    sc.habitat_of_patch = {0, 1, 0};
+    FieldSnapshot s = make_snapshot(sc, 0.0);
+    const TraitPalette palette(s.grid);
+    const Rgb8 line{0x8f, 0xa8, 0xd8};
+    const sf::Image image = rasterise(s, FieldView::dominant_trait, 6, palette);
+    CHECK(pixel(image, 6, 3) == line);       // left side of the treated patch
+    CHECK(pixel(image, 11, 3) == line);      // its right side
+    CHECK(pixel(image, 7, 3) == empty_colour);  // the dark line inside
+    CHECK(pixel(image, 8, 3) == empty_colour);  // the patch itself (no cells)
+    CHECK(pixel(image, 5, 3) == empty_colour);  // the open patch beside it: no line
+    CHECK(pixel(image, 8, 0) == empty_colour);  // the lattice edge needs none
+    CHECK(pixel(rasterise(s, FieldView::dormant_fraction, 6, palette), 6, 3) == line);
+    CHECK(pixel(rasterise(s, FieldView::total_exponent, 6, palette), 6, 3) == line);
+    CHECK(pixel(rasterise(s, FieldView::habitat, 6, palette), 6, 3) == line);  // the class colour itself
+    CHECK(pixel(rasterise(s, FieldView::stress, 6, palette), 6, 3) != line);
+    CHECK(pixel(rasterise(s, FieldView::dominant_trait, 2, palette), 2, 1) == empty_colour);  // too small
+    s.scenario.habitat_outlines = false;
+    CHECK(pixel(rasterise(s, FieldView::dominant_trait, 6, palette), 6, 3) == empty_colour);
+}
+
+TEST_CASE("frames name every schedule and say when it is on") {
+    Scenario sc;
+    sc.K = 100;
+    sc.time_unit = TimeUnit::plain;
+    Habitat open, treated;
+    treated.name = "treated";
+    sc.habitats = {open, treated};
+    sc.habitat_of_patch = {1};
+    Schedule pulse;
+    pulse.name = "antibiotic pulse";
+    pulse.habitat = "treated";
+    pulse.start = 2.0;
+    pulse.end = 3.0;
+    pulse.every = 4.0;
+    pulse.stress = 5.0;
+    Schedule unnamed = pulse;
+    unnamed.name = "";
+    unnamed.start = 10.0;
+    unnamed.every = 0.0;
+    unnamed.end = 11.0;
+    sc.schedules = {pulse, unnamed};
+    for (double t : {0.0, 1.99, 3.0, 5.5, 9.5, 11.0}) {
+        const auto status = schedule_status(make_snapshot(sc, t));
+        REQUIRE(status.size() == 2);
+        CHECK(status[0].text() == "antibiotic pulse: off");
+        CHECK_FALSE(status[1].on);
+    }
+    for (double t : {2.0, 2.5, 6.0, 10.0, 10.9}) {
+        const auto status = schedule_status(make_snapshot(sc, t));
+        CHECK(status[0].text() == "antibiotic pulse: ON");
+        CHECK(status[1].text() == std::string("treated schedule: ") + (t >= 10.0 ? "ON" : "off"));
+    }
+}

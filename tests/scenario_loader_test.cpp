@@ -38,6 +38,7 @@ TEST_CASE("a minimal scenario takes every documented default") {
     CHECK(s.fields_every == d.fields_every);
     CHECK(s.frames_every == d.frames_every);
     CHECK(s.frame_scale == 4);
+    CHECK(s.habitat_outlines);
     CHECK(s.source_path == "min.toml");
     // An empty file is a scenario too.
     CHECK_NOTHROW(parse_scenario("", "empty.toml"));
@@ -92,6 +93,8 @@ TEST_CASE("every key of the scenario file is read") {
     CHECK(s.inocula[3].dormant == 5.0);
     REQUIRE(s.schedules.size() == 1);
     const Schedule& sc = s.schedules[0];
+    CHECK(sc.name == "antibiotic pulse");
+    CHECK(s.schedule_name(0) == "antibiotic pulse");
     CHECK(sc.habitat == "treated");
     CHECK(sc.start == 10.0);
     CHECK(sc.end == 12.0);
@@ -110,6 +113,7 @@ TEST_CASE("every key of the scenario file is read") {
     CHECK(s.fields_every == 2.0);
     CHECK(s.frames_every == 0.25);
     CHECK(s.frame_scale == 6);
+    CHECK_FALSE(s.habitat_outlines);
 }
 
 TEST_CASE("mutation_exponent = inf switches mutation off") {

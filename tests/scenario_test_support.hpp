@@ -150,6 +150,7 @@ trait = [2.0, 4.0]
 dormant = 5
 
 [[schedule]]
+name = "antibiotic pulse"
 habitat = "treated"
 start = 10.0
 end = 12.0
@@ -170,6 +171,7 @@ every = 0.5
 fields_every = 2.0
 frames_every = 0.25
 frame_scale = 6
+habitat_outlines = false
 )";
 
 }  // namespace tessera::scenario_test

@@ -21,13 +21,14 @@ HabitatTimeline::HabitatTimeline(const Scenario& s) {
     for (const Habitat& h : s.habitats) {
         base_.push_back({h.capacity, h.stress, h.resuscitation, h.permeability});
     }
-    for (const Schedule& sc : s.schedules) {
+    for (std::size_t k = 0; k < s.schedules.size(); ++k) {
+        const Schedule& sc = s.schedules[k];
         int index = -1;
         for (std::size_t i = 0; i < s.habitats.size(); ++i) {
             if (s.habitats[i].name == sc.habitat) index = static_cast<int>(i);
         }
         if (index < 0) continue;  // the loader rejects unknown classes
-        windows_.push_back({index, s.to_plain(sc.start), s.to_plain(sc.end), s.to_plain(sc.every), sc});
+        windows_.push_back({index, k, s.to_plain(sc.start), s.to_plain(sc.end), s.to_plain(sc.every), sc});
     }
 }
 
@@ -42,6 +43,13 @@ std::vector<PatchConditions> HabitatTimeline::at(double t) const {
         if (w.changes.permeability) c.permeability = *w.changes.permeability;
     }
     return now;
+}
+
+bool HabitatTimeline::on(std::size_t schedule, double t) const {
+    for (const Window& w : windows_) {
+        if (w.schedule == schedule) return inside(t, w.start, w.end, w.every);
+    }
+    return false;
 }
 
 double HabitatTimeline::next_change_after(double t) const {

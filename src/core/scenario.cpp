@@ -4,6 +4,11 @@
 
 namespace tessera {
 
+std::string Scenario::schedule_name(std::size_t i) const {
+    const Schedule& sc = schedules[i];
+    return sc.name.empty() ? sc.habitat + " schedule" : sc.name;
+}
+
 double Scenario::to_plain(double in_unit) const {
     return time_unit == TimeUnit::logK ? in_unit * std::log(K) : in_unit;
 }

@@ -87,6 +87,7 @@ struct Inoculum {
 // A change of a habitat class's properties during [start, end), repeating every `every`
 // (0: once). Times in run.time_unit as written; the engine converts.
 struct Schedule {
+    std::string name;  // shown in frames and the viewer while on; "" = "<habitat> schedule"
     std::string habitat;
     double start = 0.0;
     double end = 0.0;
@@ -134,6 +135,10 @@ struct Scenario {
     double fields_every = 1.0;  // in time_unit, 0 = none
     double frames_every = 0.0;  // in time_unit, 0 = none
     int frame_scale = 4;
+    bool habitat_outlines = true;  // outline habitat classes in the views of cells
+
+    // What frames and the viewer call schedule `i` ([[schedule]] name, or "<habitat> schedule").
+    std::string schedule_name(std::size_t i) const;
 
     // Plain-time value of a duration written in run.time_unit.
     double to_plain(double in_unit) const;

@@ -27,10 +27,10 @@ const Keys override_keys = {"trait", "birth", "death", "competition", "dormancy_
 const Keys lattice_keys = {"width", "height", "neighbourhood", "boundary", "map"};
 const Keys habitat_keys = {"name", "symbol", "colour", "capacity", "stress", "resuscitation", "permeability"};
 const Keys inoculum_keys = {"where", "trait", "active", "exponent", "dormant"};
-const Keys schedule_keys = {"habitat", "start", "end", "every", "capacity", "stress", "resuscitation",
+const Keys schedule_keys = {"name", "habitat", "start", "end", "every", "capacity", "stress", "resuscitation",
                             "permeability"};
 const Keys run_keys = {"until", "time_unit", "method", "sync", "seed", "threads", "checkpoint_every"};
-const Keys output_keys = {"every", "fields_every", "frames_every", "frame_scale"};
+const Keys output_keys = {"every", "fields_every", "frames_every", "frame_scale", "habitat_outlines"};
 
 // One count may not pass what a whole patch may hold (core/count_limit.hpp).
 const Bounds count_bounds{0.0, cell_limit_real, false, false, "a whole number >= 0 and below 2^62", true};
@@ -232,6 +232,7 @@ void read_schedules(const std::vector<const toml::table*>& entries, Scenario& s,
         if (!entries[i]) continue;
         TableReader r(entries[i], entry_name("schedule", i), schedule_keys, f);
         Schedule sc;
+        r.text("name", sc.name);
         if (!r.has("habitat")) r.report("habitat", "missing; accepted: the name of a [[habitat]]");
         r.text("habitat", sc.habitat);
         r.number("start", sc.start, Bounds::non_negative());
@@ -273,6 +274,7 @@ void read_output(const toml::table* t, Scenario& s, Findings& f) {
     r.number("frames_every", s.frames_every, {0.0, std::numeric_limits<double>::infinity(), false, false,
                                               "a finite number >= 0 (0: no frames)"});
     r.integer("frame_scale", s.frame_scale, 1, 256, "a whole number from 1 to 256 (pixels per patch)");
+    r.boolean("habitat_outlines", s.habitat_outlines);
 }
 
 }  // namespace

@@ -141,6 +141,7 @@ std::string resolved_scenario_toml(const Scenario& s) {
 
     for (const Schedule& sc : s.schedules) {
         w.array_header("schedule");
+        if (!sc.name.empty()) w.text("name", sc.name);
         w.text("habitat", sc.habitat);
         w.number("start", sc.start);
         w.number("end", sc.end);
@@ -162,6 +163,7 @@ std::string resolved_scenario_toml(const Scenario& s) {
     w.number("fields_every", s.fields_every);
     w.number("frames_every", s.frames_every);
     w.integer("frame_scale", s.frame_scale);
+    w.boolean("habitat_outlines", s.habitat_outlines);
 
     w.header("provenance");
     w.text("program", "tessera");
