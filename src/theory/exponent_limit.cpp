@@ -1,8 +1,20 @@
-// STUB (session 3 skeleton): the limit is being written; every call says so.
+// The event loop of the exponent limit (exponent_limit.hpp lists the steps): phases of
+// constant residents and conditions, each settled, classified and then moved exactly from
+// event to event.
 #include "theory/exponent_limit.hpp"
 
+#include <algorithm>
 #include <cmath>
-#include <stdexcept>
+#include <cstdio>
+#include <functional>
+#include <limits>
+#include <numeric>
+
+#include "theory/limit_fitness.hpp"
+#include "theory/limit_model.hpp"
+#include "theory/limit_motion.hpp"
+#include "theory/limit_settle.hpp"
+#include "theory/limit_sources.hpp"
 
 namespace tessera {
 
@@ -13,20 +25,331 @@ const char* name_of(PhaseEnd end) {
         case PhaseEnd::no_equilibrium: return "no_equilibrium";
         case PhaseEnd::no_resident: return "no_resident";
         case PhaseEnd::tie: return "tie";
+        case PhaseEnd::schedule: return "schedule";
     }
     return "?";
 }
 
-double LimitPrediction::exponent_at(int, double) const { return std::nan(""); }
-
-std::optional<std::string> limit_not_applicable(const Scenario&) {
-    return std::string("the exponent limit is not built yet");
+double until_logK(const Scenario& s) { return s.time_unit == TimeUnit::logK ? s.until : s.until / std::log(s.K); }
+double output_every_logK(const Scenario& s) {
+    return s.time_unit == TimeUnit::logK ? s.output_every : s.output_every / std::log(s.K);
 }
 
-LimitPrediction predict_limit(const Scenario&, const LimitSettings&) {
-    throw std::logic_error("predict_limit: not built yet");
+double LimitPrediction::exponent_at(int trait, double s) const {
+    if (knot_t_logK.empty() || s > stopped_at || s < 0 || std::isnan(s)) return std::nan("");
+    const auto after = std::upper_bound(knot_t_logK.begin(), knot_t_logK.end(), s);
+    const std::size_t k = static_cast<std::size_t>(after - knot_t_logK.begin()) - 1;  // last knot at or before s
+    const double b0 = knot_exponents[k][static_cast<std::size_t>(trait)];
+    if (k + 1 >= knot_t_logK.size()) return b0;
+    const double t0 = knot_t_logK[k], t1 = knot_t_logK[k + 1];
+    const double b1 = knot_exponents[k + 1][static_cast<std::size_t>(trait)];
+    return t1 > t0 ? b0 + (b1 - b0) * (s - t0) / (t1 - t0) : b1;
 }
 
-std::optional<ResidentCycle> find_cycle(const LimitPrediction&, int) { return std::nullopt; }
+std::optional<std::string> limit_not_applicable(const Scenario& s) {
+    if (s.width * s.height != 1) {
+        return "the scenario has " + std::to_string(s.width) + " x " + std::to_string(s.height) +
+               " patches (lattice.width, lattice.height); the exponent limit describes one well-mixed patch";
+    }
+    if (!(s.K > 1)) return std::string("scale.K must be above 1 for exponents log(1 + N) / ln K");
+    if (s.rates.mutation_exponent == 0) {
+        return std::string("rates.mutation_exponent = 0 makes every offspring a mutant; the limit needs "
+                           "mutation_exponent > 0 (or inf for no mutation)");
+    }
+    const std::size_t cls = s.habitat_of_patch.empty() ? 0 : s.habitat_of_patch[0];
+    const Habitat home = cls < s.habitats.size() ? s.habitats[cls] : Habitat{};
+    if (!(home.capacity > 0)) return "the only patch is a wall (habitat \"" + home.name + "\" has capacity = 0)";
+    for (std::size_t i = 0; i < s.schedules.size(); ++i) {
+        const Schedule& sc = s.schedules[i];
+        if (sc.habitat != home.name) continue;  // never touches the one patch
+        const std::string key = "schedule[" + std::to_string(i + 1) + "]";
+        if (s.time_unit == TimeUnit::plain) {
+            return key + " (habitat \"" + sc.habitat + "\") is timed in plain time (run.time_unit = \"plain\"); the limit " +
+                   "changes conditions on the t / ln K scale only: set run.time_unit = \"logK\" and give its times in t / ln K";
+        }
+        if (sc.capacity && !(*sc.capacity > 0))
+            return key + " sets capacity = 0 (a wall) on the only patch; the limit needs a patch that holds cells";
+    }
+    return std::nullopt;
+}
+
+namespace {
+
+std::string number_text(double v) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.6g", v);
+    return buf;
+}
+
+std::string trait_text(const TraitGrid& g, int i) {
+    return "(" + number_text(g.dormancy(i)) + ", " + number_text(g.transfer(i)) + ")";
+}
+
+// One phase's structure: residents, equilibrium, classes and their motion.
+struct Structure {
+    std::vector<char> resident;      // per compartment
+    std::vector<double> equilibrium; // per compartment, units of K
+    FitnessClasses classes;
+    MotionSystem motion;
+};
+
+class LimitRun {
+public:
+    LimitRun(const Scenario& scenario, const LimitSettings& settings)
+        : model_(scenario), s_(settings), T_(model_.traits()), until_(until_logK(scenario)) {}
+
+    LimitPrediction run();
+
+private:
+    std::vector<double> trait_exponents(const std::vector<double>& comp) const {
+        std::vector<double> e(static_cast<std::size_t>(T_));
+        for (int i = 0; i < T_; ++i) e[static_cast<std::size_t>(i)] = std::max(comp[static_cast<std::size_t>(i)], comp[static_cast<std::size_t>(T_ + i)]);
+        return e;
+    }
+    // Compartment exponents from the classes' (residents at 1).
+    std::vector<double> compartments_of(const Structure& st, const std::vector<double>& beta) const {
+        std::vector<double> comp(static_cast<std::size_t>(2 * T_), 1.0);
+        for (std::size_t c = 0; c < comp.size(); ++c) {
+            if (!st.resident[c]) comp[c] = beta[static_cast<std::size_t>(st.classes.class_of[c])];
+        }
+        return comp;
+    }
+    void knot(double s, const std::vector<double>& comp) {
+        std::vector<double> e = trait_exponents(comp);
+        if (!out_.knot_t_logK.empty() && out_.knot_t_logK.back() == s && out_.knot_exponents.back() == e) return;
+        out_.knot_t_logK.push_back(s);
+        out_.knot_exponents.push_back(std::move(e));
+    }
+    void stop(LimitPhase& phase, PhaseEnd end, double s, std::string reason) {
+        phase.end = end;
+        phase.end_t_logK = s;
+        out_.phases.push_back(phase);
+        out_.stopped_at = s;
+        out_.stop_reason = std::move(reason);
+    }
+    std::string traits_text(const std::vector<int>& traits) const {
+        std::string t;
+        for (std::size_t k = 0; k < traits.size(); ++k) t += (k ? (k + 1 == traits.size() ? " and " : ", ") : "") + trait_text(model_.grid(), traits[k]);
+        return t;
+    }
+    std::vector<int> traits_of(const Structure& st, const std::vector<int>& classes) const {
+        std::vector<int> t;
+        for (int u : classes)
+            for (int c : st.classes.members[static_cast<std::size_t>(u)]) t.push_back(c % T_);
+        std::sort(t.begin(), t.end());
+        t.erase(std::unique(t.begin(), t.end()), t.end());
+        return t;
+    }
+
+    LimitModel model_;
+    const LimitSettings& s_;
+    int T_;
+    double until_;
+    LimitPrediction out_;
+};
+
+LimitPrediction LimitRun::run() {
+    const double log_K = model_.log_K();
+    const double K = model_.scenario().K;
+    const std::vector<double> counts = initial_counts(model_);
+    const double capacity0 = model_.conditions_between(0.0, model_.next_change_after(0.0)).capacity;
+    std::vector<double> comp(static_cast<std::size_t>(2 * T_), 0.0), start(comp.size(), 0.0);
+    for (std::size_t c = 0; c < comp.size(); ++c) {
+        const bool at_one = counts[c] > 0 && counts[c] >= s_.resident_fraction * K * capacity0;
+        comp[c] = at_one ? 1.0 : std::min(1.0, std::log1p(counts[c]) / log_K);
+        if (at_one) start[c] = counts[c] / K;
+    }
+    knot(0.0, comp);
+    double s = 0.0;
+    std::size_t events = 0;
+    for (;;) {
+        const double change = model_.next_change_after(s);
+        const double bound = std::min(until_, change);
+        const DeterministicOde ode = model_.ode(model_.conditions_between(s, bound));
+        LimitPhase phase;
+        phase.start_t_logK = s;
+        const SettleResult settled = settle(ode, start, s_);
+        if (!settled.converged) {
+            stop(phase, PhaseEnd::no_equilibrium, s,
+                 "at t/lnK = " + number_text(s) + " the deterministic limit reaches no equilibrium within " +
+                     number_text(s_.settle_time_max) + " units of plain time (densities still change at rate " +
+                     number_text(settled.residual) + " per unit time)");
+            return out_;
+        }
+        Structure st;
+        st.equilibrium = settled.densities;
+        st.resident.assign(comp.size(), 0);
+        for (std::size_t c = 0; c < comp.size(); ++c) {
+            st.resident[c] = settled.densities[c] > 0;
+            if (st.resident[c]) comp[c] = 1.0;
+        }
+        const Eigen::MatrixXd J = non_resident_jacobian(ode, st.equilibrium, st.resident, s_.jacobian_step);
+        st.classes = fitness_classes(J, st.resident, s_.coupling_threshold);
+        st.motion.growth = st.classes.growth;
+        st.motion.sources = floor_sources(model_, st.classes, st.resident);
+        st.motion.contact = s_.contact_tolerance;
+        std::vector<double> beta(st.classes.members.size(), 0.0);
+        for (std::size_t u = 0; u < beta.size(); ++u)
+            for (int c : st.classes.members[u]) beta[u] = std::max(beta[u], comp[static_cast<std::size_t>(c)]);
+        raise_to_floors(st.motion, beta);
+        comp = compartments_of(st, beta);
+        knot(s, comp);
+
+        phase.fitness.assign(static_cast<std::size_t>(T_), std::nan(""));
+        for (int i = 0; i < T_; ++i) {
+            const auto a = static_cast<std::size_t>(i), z = static_cast<std::size_t>(T_ + i);
+            if (st.resident[a] || st.resident[z]) {
+                phase.residents.push_back({i, st.equilibrium[a], st.equilibrium[z]});
+                continue;
+            }
+            phase.fitness[a] = std::max(st.classes.growth[static_cast<std::size_t>(st.classes.class_of[a])],
+                                        st.classes.growth[static_cast<std::size_t>(st.classes.class_of[z])]);
+        }
+        // Traits left at 1 (old residents, failed invaders) must decline, or the equilibrium
+        // does not describe the phase.
+        std::vector<double> v = velocities(st.motion, beta);
+        for (std::size_t u = 0; u < beta.size(); ++u) {
+            if (beta[u] < 1.0 - s_.contact_tolerance || v[u] < -s_.neutral_fitness) continue;
+            const std::string who = traits_text(traits_of(st, {static_cast<int>(u)}));
+            if (v[u] > s_.neutral_fitness) {
+                stop(phase, PhaseEnd::no_equilibrium, s,
+                     "at t/lnK = " + number_text(s) + " " + who + " is at exponent 1 but not resident and grows (fitness " +
+                         number_text(v[u]) + "): the equilibrium reached is not stable against it");
+            } else {
+                stop(phase, PhaseEnd::tie, s,
+                     "at t/lnK = " + number_text(s) + " " + who +
+                         " is at exponent 1 with invasion fitness 0 (neutral): the limit does not say whether it stays");
+            }
+            return out_;
+        }
+
+        for (;;) {
+            v = velocities(st.motion, beta);
+            const MotionEvent ev = next_motion_event(st.motion, beta, v);
+            if (++events > s_.max_events) {
+                stop(phase, PhaseEnd::no_equilibrium, s,
+                     "at t/lnK = " + number_text(s) + " more than " + std::to_string(s_.max_events) +
+                         " events: the prediction stops there");
+                return out_;
+            }
+            if (ev.kind == MotionEvent::none || s + ev.dt >= bound) {
+                for (std::size_t u = 0; u < beta.size(); ++u) beta[u] = std::clamp(beta[u] + v[u] * (bound - s), 0.0, 1.0);
+                s = bound;
+                comp = compartments_of(st, beta);
+                knot(s, comp);
+                if (bound >= until_) {
+                    const bool none_grows = std::none_of(v.begin(), v.end(), [](double x) { return x > 0; });
+                    phase.end = phase.residents.empty() && none_grows ? PhaseEnd::no_resident : PhaseEnd::until;
+                    phase.end_t_logK = s;
+                    out_.phases.push_back(phase);
+                    out_.stopped_at = s;
+                    return out_;
+                }
+                phase.end = PhaseEnd::schedule;
+                phase.end_t_logK = s;
+                out_.phases.push_back(phase);
+                start = st.equilibrium;
+                break;
+            }
+            for (std::size_t u = 0; u < beta.size(); ++u) beta[u] = std::clamp(beta[u] + v[u] * ev.dt, 0.0, 1.0);
+            s += ev.dt;
+            if (ev.kind == MotionEvent::reach_one) beta[static_cast<std::size_t>(ev.unit)] = 1.0;
+            if (ev.kind == MotionEvent::reach_zero) beta[static_cast<std::size_t>(ev.unit)] = 0.0;
+            knot(s, compartments_of(st, beta));
+            raise_to_floors(st.motion, beta);
+            comp = compartments_of(st, beta);
+            knot(s, comp);
+
+            // Who reaches 1 now: the class of the event, the classes it carries with it at order
+            // one, and any other within tie_tolerance (a tie when not carried by one another).
+            // Any event may bring a class within contact of 1, not only its own.
+            std::vector<int> rising;
+            for (std::size_t u = 0; u < beta.size(); ++u) {
+                if (v[u] > 0 && (beta[u] >= 1.0 - s_.contact_tolerance || 1.0 - beta[u] <= v[u] * s_.tie_tolerance))
+                    rising.push_back(static_cast<int>(u));
+            }
+            if (rising.empty()) continue;
+
+            std::vector<int> group(rising.size());
+            std::iota(group.begin(), group.end(), 0);
+            std::function<int(int)> root = [&](int k) { return group[static_cast<std::size_t>(k)] == k ? k : group[static_cast<std::size_t>(k)] = root(group[static_cast<std::size_t>(k)]); };
+            for (std::size_t a = 0; a < rising.size(); ++a)
+                for (std::size_t b = 0; b < rising.size(); ++b)
+                    if (a != b && follows(st.motion, beta, rising[a], rising[b]))
+                        group[static_cast<std::size_t>(root(static_cast<int>(a)))] = root(static_cast<int>(b));
+            std::vector<int> leaders;
+            for (std::size_t a = 0; a < rising.size(); ++a)
+                if (root(static_cast<int>(a)) == static_cast<int>(a)) leaders.push_back(rising[a]);
+            phase.invaders = traits_of(st, rising);
+            if (leaders.size() > 1) {
+                std::vector<int> first;
+                for (int u : leaders) first.push_back(traits_of(st, {u}).front());
+                stop(phase, PhaseEnd::tie, s,
+                     "at t/lnK = " + number_text(s) + " " + traits_text(first) + " reach exponent 1 within " +
+                         number_text(s_.tie_tolerance) + " of each other: the limit does not say which invades first");
+                return out_;
+            }
+            for (int u : rising) beta[static_cast<std::size_t>(u)] = 1.0;
+            comp = compartments_of(st, beta);
+            phase.end = PhaseEnd::invasion;
+            phase.end_t_logK = s;
+            out_.phases.push_back(phase);
+            start = st.equilibrium;
+            for (int u : rising)
+                for (int c : st.classes.members[static_cast<std::size_t>(u)]) start[static_cast<std::size_t>(c)] = s_.invader_density;
+            break;
+        }
+    }
+}
+
+}  // namespace
+
+LimitPrediction predict_limit(const Scenario& scenario, const LimitSettings& settings) {
+    return LimitRun(scenario, settings).run();
+}
+
+std::optional<ResidentCycle> find_cycle(const LimitPrediction& p, int min_repeats, double tolerance) {
+    auto complete = [&](std::size_t k) {
+        return k < p.phases.size() && (p.phases[k].end == PhaseEnd::invasion || p.phases[k].end == PhaseEnd::schedule);
+    };
+    auto same = [&](std::size_t a, std::size_t b) {
+        const LimitPhase &x = p.phases[a], &y = p.phases[b];
+        if (x.residents.size() != y.residents.size()) return false;
+        for (std::size_t k = 0; k < x.residents.size(); ++k)
+            if (x.residents[k].trait != y.residents[k].trait) return false;
+        const double dx = x.end_t_logK - x.start_t_logK, dy = y.end_t_logK - y.start_t_logK;
+        return std::fabs(dx - dy) <= tolerance;
+    };
+    const std::size_t n = p.phases.size();
+    for (std::size_t first = 0; first < n; ++first) {
+        for (std::size_t length = 1; first + 2 * length <= n; ++length) {
+            int repeats = 0;
+            for (;; ++repeats) {
+                const std::size_t at = first + static_cast<std::size_t>(repeats + 1) * length;
+                bool ok = true;
+                for (std::size_t k = 0; k < length && ok; ++k)
+                    ok = complete(first + k) && complete(at + k) && same(first + k, at + k);
+                if (!ok) break;
+            }
+            // A cycle changes residents: a sequence of one resident set (a schedule repeating
+            // under the same residents) is not one.
+            bool changes = false;
+            for (std::size_t k = 1; k < length && !changes; ++k) {
+                const auto &a = p.phases[first].residents, &b = p.phases[first + k].residents;
+                changes = a.size() != b.size() ||
+                          !std::equal(a.begin(), a.end(), b.begin(), [](const ResidentState& x, const ResidentState& y) {
+                              return x.trait == y.trait;
+                          });
+            }
+            if (changes && repeats >= std::max(1, min_repeats)) {
+                ResidentCycle c{first, length, 0.0, repeats};
+                for (std::size_t k = 0; k < length; ++k)
+                    c.period += p.phases[first + k].end_t_logK - p.phases[first + k].start_t_logK;
+                return c;
+            }
+        }
+    }
+    return std::nullopt;
+}
 
 }  // namespace tessera
