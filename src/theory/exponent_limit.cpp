@@ -212,9 +212,14 @@ LimitPrediction LimitRun::run() {
             if (beta[u] < 1.0 - s_.contact_tolerance || v[u] < -s_.neutral_fitness) continue;
             const std::string who = traits_text(traits_of(st, {static_cast<int>(u)}));
             if (v[u] > s_.neutral_fitness) {
+                const bool empty = phase.residents.empty() && model_.rates().transfer > 0 &&
+                                   model_.rates().transfer_form == TransferForm::frequency;
                 stop(phase, PhaseEnd::no_equilibrium, s,
                      "at t/lnK = " + number_text(s) + " " + who + " is at exponent 1 but not resident and grows (fitness " +
-                         number_text(v[u]) + "): the equilibrium reached is not stable against it");
+                         number_text(v[u]) + "): the equilibrium reached is not stable against it" +
+                         (empty ? " (the deterministic limit collapsed to no resident; below exponent 1 the frequency-"
+                                  "dependent transfer among the survivors decides, which the limit does not follow)"
+                                : ""));
             } else {
                 stop(phase, PhaseEnd::tie, s,
                      "at t/lnK = " + number_text(s) + " " + who +
