@@ -290,3 +290,48 @@ TEST_CASE("limit_not_applicable names the key at fault", "[limit]") {
     every.rates.mutation_exponent = 0.0;
     CHECK(limit_not_applicable(every));
 }
+
+TEST_CASE("V14: below exponent 1 frequency-dependent transfer acts among the dominant traits", "[limit][v14]") {
+    // No resident: competition vanishes (N / K -> 0), but the frequency form tau A_j A_k / N
+    // stays of order one between the traits at the top exponent and the rest. Transfer axis
+    // 0, 2 (b = 4, 3), d = 1, dormancy and mutation off.
+    Scenario s = limittest::scenario();
+    s.transfer_axis = {2.0, 2};
+    const int y0 = trait(s, 0, 0), y2 = trait(s, 0, 2);
+    SECTION("the top trait converts the donor's partners: the donor gains tau") {
+        // (0, 0) at 0.5 dominates and grows at b - d = 3; the donor (0, 2) at 0.3 grows at
+        // 3 - 1 + tau = 3.5 (all its partners are (0, 0)). (0, 0) reaches 1 at 1/6, the donor
+        // is then at 0.3 + 3.5 / 6; with (0, 0) resident (n* = 3) it grows at 3 - 1 - 3 + 1.5 =
+        // 0.5 and reaches 1 at 1/6 + (0.7 - 3.5 / 6) / 0.5.
+        s.rates.transfer = 1.5;
+        s.inocula = {limittest::cells(s, 0, 0, 0.5), limittest::cells(s, 0, 2, 0.3)};
+        const LimitPrediction p = predict_limit(s);
+        REQUIRE(p.phases.size() >= 2);
+        const double b0 = limittest::start_exponent(s, 0.5), b2 = limittest::start_exponent(s, 0.3);
+        const double s1 = (1 - b0) / 3.0;
+        CHECK(p.phases[0].fitness[static_cast<std::size_t>(y2)] == Approx(3.5).margin(tol));
+        CHECK(p.phases[0].end_t_logK == Approx(s1).margin(tol));
+        CHECK(p.exponent_at(y2, s1) == Approx(b2 + 3.5 * s1).margin(tol));
+        CHECK(p.phases[1].end_t_logK == Approx(s1 + (1 - b2 - 3.5 * s1) / 0.5).margin(tol));
+        CHECK(p.phases[1].invaders == std::vector<int>{y2});
+    }
+    SECTION("a donor catching up joins the mix and takes it over") {
+        // tau = 3: (0, 0) at 0.2 grows at 3, the donor at 0.1 at 3 - 1 + 3 = 5: they meet at
+        // s = 0.05, exponent 0.35. In the mix the donor's share f follows
+        // df/dt = f (1 - f) (2 - 3 + tau) = 2 f (1 - f) -> 1, so the mix is the donor alone,
+        // growing at 2; (0, 0), converted at rate tau, has 3 - 3 = 0 and stays at 0.35. The
+        // donor reaches 1 at 0.05 + 0.65 / 2.
+        s.rates.transfer = 3.0;
+        s.inocula = {limittest::cells(s, 0, 0, 0.2), limittest::cells(s, 0, 2, 0.1)};
+        const LimitPrediction p = predict_limit(s);
+        REQUIRE(!p.phases.empty());
+        const double b0 = limittest::start_exponent(s, 0.2), b2 = limittest::start_exponent(s, 0.1);
+        const double meet = (b0 - b2) / 2.0, level = b0 + 3.0 * meet;
+        CHECK(p.exponent_at(y0, meet) == Approx(level).margin(tol));
+        CHECK(p.exponent_at(y0, meet + 0.2) == Approx(level).margin(tol));
+        CHECK(p.exponent_at(y2, meet + 0.2) == Approx(level + 0.4).margin(tol));
+        CHECK(p.phases[0].end == PhaseEnd::invasion);
+        CHECK(p.phases[0].end_t_logK == Approx(meet + (1 - level) / 2.0).margin(tol));
+        CHECK(p.phases[0].invaders == std::vector<int>{y2});
+    }
+}

@@ -91,16 +91,30 @@ struct Structure {
     std::vector<double> equilibrium; // per compartment, units of K
     FitnessClasses classes;
     MotionSystem motion;
+    // Below exponent 1 with frequency-dependent transfer (no resident): the class of the
+    // dominant compartments (the last one), their mix and its largest share; -1 otherwise.
+    int group = -1;
+    std::vector<double> ray;
+    double ray_max = 1.0;
 };
 
 class LimitRun {
 public:
     LimitRun(const Scenario& scenario, const LimitSettings& settings)
-        : model_(scenario), s_(settings), T_(model_.traits()), until_(until_logK(scenario)) {}
+        : model_(scenario),
+          s_(settings),
+          T_(model_.traits()),
+          until_(until_logK(scenario)),
+          dominant_transfer_(model_.rates().transfer > 0 && model_.rates().transfer_form == TransferForm::frequency &&
+                             model_.grid().y_levels() > 1) {}
 
     LimitPrediction run();
 
 private:
+    void build_classes(Structure& st, const DeterministicOde& ode, std::vector<double>& comp, std::vector<double>& beta);
+    bool build_group(Structure& st, const DeterministicOde& below, std::vector<double>& comp, std::vector<double>& beta,
+                     double s, LimitPhase& phase);
+
     std::vector<double> trait_exponents(const std::vector<double>& comp) const {
         std::vector<double> e(static_cast<std::size_t>(T_));
         for (int i = 0; i < T_; ++i) e[static_cast<std::size_t>(i)] = std::max(comp[static_cast<std::size_t>(i)], comp[static_cast<std::size_t>(T_ + i)]);
@@ -145,8 +159,82 @@ private:
     const LimitSettings& s_;
     int T_;
     double until_;
+    // Frequency-dependent transfer acts at order one among the dominant traits even below
+    // exponent 1 (tau A_j A_k / N with N ~ K^beta*): with no resident they form a group.
+    bool dominant_transfer_;
     LimitPrediction out_;
 };
+
+// Residents at their equilibrium (or none, without frequency-dependent transfer): classes,
+// their growth and floors from the linearisation at st.equilibrium.
+void LimitRun::build_classes(Structure& st, const DeterministicOde& ode, std::vector<double>& comp,
+                             std::vector<double>& beta) {
+    const Eigen::MatrixXd J = non_resident_jacobian(ode, st.equilibrium, st.resident, s_.jacobian_step);
+    st.classes = fitness_classes(J, st.resident, s_.coupling_threshold);
+    st.group = -1;
+    st.motion.growth = st.classes.growth;
+    st.motion.sources = floor_sources(model_, st.classes, st.resident);
+    st.motion.contact = s_.contact_tolerance;
+    beta.assign(st.classes.members.size(), 0.0);
+    for (std::size_t u = 0; u < beta.size(); ++u)
+        for (int c : st.classes.members[u]) beta[u] = std::max(beta[u], comp[static_cast<std::size_t>(c)]);
+    raise_to_floors(st.motion, beta);
+    comp = compartments_of(st, beta);
+}
+
+// No resident, frequency-dependent transfer: the compartments at the highest exponent settle
+// to a stable mix of the competition-free limit and grow along it; every other class is
+// linearised around that mix (its transfer partners are the group's members in their shares).
+bool LimitRun::build_group(Structure& st, const DeterministicOde& below, std::vector<double>& comp,
+                           std::vector<double>& beta, double s, LimitPhase& phase) {
+    const std::size_t C = comp.size();
+    st.resident.assign(C, 0);
+    double top = 0.0;
+    for (double b : comp) top = std::max(top, b);
+    if (!(top > s_.contact_tolerance)) {  // everything extinct: nothing to mix
+        st.equilibrium.assign(C, 0.0);
+        build_classes(st, below, comp, beta);
+        return true;
+    }
+    std::vector<double> start(C, 0.0);
+    for (std::size_t c = 0; c < C; ++c)
+        if (comp[c] >= top - s_.contact_tolerance) start[c] = 1.0;
+    const RayResult ray = settle_ray(below, start, s_);
+    if (!ray.converged) {
+        stop(phase, PhaseEnd::no_equilibrium, s,
+             "at t/lnK = " + number_text(s) + " the traits at the top exponent (no resident) reach no stable mix within " +
+                 number_text(s_.settle_time_max) + " units of plain time");
+        return false;
+    }
+    std::vector<char> in_group(C, 0);
+    std::vector<int> members;
+    st.ray_max = 0.0;
+    for (std::size_t c = 0; c < C; ++c) {
+        in_group[c] = ray.direction[c] > 0;
+        if (in_group[c]) {
+            members.push_back(static_cast<int>(c));
+            st.ray_max = std::max(st.ray_max, ray.direction[c]);
+        }
+    }
+    const Eigen::MatrixXd J = non_resident_jacobian(below, ray.direction, in_group, s_.jacobian_step);
+    st.classes = fitness_classes(J, in_group, s_.coupling_threshold);
+    st.group = static_cast<int>(st.classes.members.size());
+    for (int c : members) st.classes.class_of[static_cast<std::size_t>(c)] = st.group;
+    st.classes.members.push_back(members);
+    st.classes.growth.push_back(ray.growth);
+    st.ray = ray.direction;
+    st.equilibrium.assign(C, 0.0);
+    st.motion.growth = st.classes.growth;
+    st.motion.sources = floor_sources(model_, st.classes, st.resident);
+    st.motion.contact = s_.contact_tolerance;
+    beta.assign(st.classes.members.size(), 0.0);
+    for (std::size_t u = 0; u < beta.size(); ++u)
+        for (int c : st.classes.members[u]) beta[u] = std::max(beta[u], comp[static_cast<std::size_t>(c)]);
+    beta[static_cast<std::size_t>(st.group)] = top;
+    raise_to_floors(st.motion, beta);
+    comp = compartments_of(st, beta);
+    return true;
+}
 
 LimitPrediction LimitRun::run() {
     const double log_K = model_.log_K();
@@ -165,7 +253,8 @@ LimitPrediction LimitRun::run() {
     for (;;) {
         const double change = model_.next_change_after(s);
         const double bound = std::min(until_, change);
-        const DeterministicOde ode = model_.ode(model_.conditions_between(s, bound));
+        const PatchConditions conditions = model_.conditions_between(s, bound);
+        const DeterministicOde ode = model_.ode(conditions);
         LimitPhase phase;
         phase.start_t_logK = s;
         const SettleResult settled = settle(ode, start, s_);
@@ -179,20 +268,19 @@ LimitPrediction LimitRun::run() {
         Structure st;
         st.equilibrium = settled.densities;
         st.resident.assign(comp.size(), 0);
+        bool any_resident = false;
         for (std::size_t c = 0; c < comp.size(); ++c) {
             st.resident[c] = settled.densities[c] > 0;
             if (st.resident[c]) comp[c] = 1.0;
+            any_resident = any_resident || st.resident[c];
         }
-        const Eigen::MatrixXd J = non_resident_jacobian(ode, st.equilibrium, st.resident, s_.jacobian_step);
-        st.classes = fitness_classes(J, st.resident, s_.coupling_threshold);
-        st.motion.growth = st.classes.growth;
-        st.motion.sources = floor_sources(model_, st.classes, st.resident);
-        st.motion.contact = s_.contact_tolerance;
-        std::vector<double> beta(st.classes.members.size(), 0.0);
-        for (std::size_t u = 0; u < beta.size(); ++u)
-            for (int c : st.classes.members[u]) beta[u] = std::max(beta[u], comp[static_cast<std::size_t>(c)]);
-        raise_to_floors(st.motion, beta);
-        comp = compartments_of(st, beta);
+        const DeterministicOde below = model_.ode_below_one(conditions);
+        std::vector<double> beta;
+        if (!any_resident && dominant_transfer_) {
+            if (!build_group(st, below, comp, beta, s, phase)) return out_;
+        } else {
+            build_classes(st, ode, comp, beta);
+        }
         knot(s, comp);
 
         phase.fitness.assign(static_cast<std::size_t>(T_), std::nan(""));
@@ -236,6 +324,24 @@ LimitPrediction LimitRun::run() {
                      "at t/lnK = " + number_text(s) + " more than " + std::to_string(s_.max_events) +
                          " events: the prediction stops there");
                 return out_;
+            }
+            // Below exponent 1 a class meeting the dominant group's exponent joins its mix.
+            if (st.group >= 0) {
+                const auto g = static_cast<std::size_t>(st.group);
+                double join = std::numeric_limits<double>::infinity();
+                for (std::size_t u = 0; u < beta.size(); ++u) {
+                    const double gap = beta[g] - beta[u];
+                    if (u != g && gap > s_.contact_tolerance && v[u] > v[g]) join = std::min(join, gap / (v[u] - v[g]));
+                }
+                if (join < ev.dt && s + join < bound) {
+                    for (std::size_t u = 0; u < beta.size(); ++u) beta[u] = std::clamp(beta[u] + v[u] * join, 0.0, 1.0);
+                    s += join;
+                    comp = compartments_of(st, beta);
+                    knot(s, comp);
+                    if (!build_group(st, below, comp, beta, s, phase)) return out_;
+                    knot(s, comp);
+                    continue;
+                }
             }
             if (ev.kind == MotionEvent::none || s + ev.dt >= bound) {
                 for (std::size_t u = 0; u < beta.size(); ++u) beta[u] = std::clamp(beta[u] + v[u] * (bound - s), 0.0, 1.0);
@@ -300,8 +406,13 @@ LimitPrediction LimitRun::run() {
             phase.end_t_logK = s;
             out_.phases.push_back(phase);
             start = st.equilibrium;
-            for (int u : rising)
-                for (int c : st.classes.members[static_cast<std::size_t>(u)]) start[static_cast<std::size_t>(c)] = s_.invader_density;
+            for (int u : rising) {
+                for (int c : st.classes.members[static_cast<std::size_t>(u)]) {
+                    // The dominant group arrives in its own mix.
+                    const double share = u == st.group ? st.ray[static_cast<std::size_t>(c)] / st.ray_max : 1.0;
+                    start[static_cast<std::size_t>(c)] = s_.invader_density * share;
+                }
+            }
             break;
         }
     }

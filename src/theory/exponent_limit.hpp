@@ -21,6 +21,10 @@
 //     growth rate, on its floor at max(growth, floor's slope); at 0 with no source above 0 it
 //     is extinct. Next event: a class reaching 1, reaching 0 or meeting a floor, a schedule
 //     boundary, run.until.
+//     With no resident and frequency-dependent transfer, the compartments at the top exponent
+//     are a dominant group: settled to a stable mix of the competition-free limit
+//     (limit_settle.hpp settle_ray), growing along it; the others are linearised around the
+//     mix; a class meeting the group's exponent joins it (the mix is settled again).
 //  6. A class reaching 1 invades: back to 2 from the old equilibrium plus the invader at
 //     invader_density. A schedule boundary (t / ln K units) re-settles under the new
 //     conditions. Where the hypotheses fail (no equilibrium, a tie, a trait left at 1 that

@@ -73,6 +73,11 @@ DeterministicOde LimitModel::ode(const PatchConditions& conditions) const {
     return DeterministicOde(scenario_, grid_, rates_, {conditions});
 }
 
+DeterministicOde LimitModel::ode_below_one(PatchConditions conditions) const {
+    conditions.capacity = below_one_capacity;
+    return DeterministicOde(scenario_, grid_, rates_, {conditions});
+}
+
 std::vector<double> initial_counts(const LimitModel& model) {
     const Scenario& s = model.scenario();
     const TraitGrid& g = model.grid();

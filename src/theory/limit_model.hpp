@@ -35,6 +35,13 @@ public:
 
     // The deterministic limit (mutation off) under `conditions`.
     DeterministicOde ode(const PatchConditions& conditions) const;
+    // The same below exponent 1, where N / K -> 0: competition, dormancy induction and the
+    // density form of transfer vanish (a capacity of below_one_capacity), the frequency form
+    // of transfer stays.
+    DeterministicOde ode_below_one(PatchConditions conditions) const;
+    // Capacity standing for "infinitely far below K": N / (c K) is then below 1e-100 for any
+    // density of order one, far under every rate's rounding.
+    static constexpr double below_one_capacity = 1e100;
 
 private:
     // Next change of any window of the class strictly after plain time t + a rounding margin.

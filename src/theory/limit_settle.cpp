@@ -129,4 +129,47 @@ SettleResult settle(const DeterministicOde& ode, std::vector<double> start, cons
     return r;
 }
 
+RayResult settle_ray(const DeterministicOde& ode, std::vector<double> start, const LimitSettings& settings) {
+    namespace odeint = boost::numeric::odeint;
+    RayResult r;
+    State y = std::move(start), f(y.size());
+    auto normalise = [&] {
+        double sum = 0.0;
+        for (double& v : y) sum += v = std::max(v, 0.0);
+        if (!(sum > 0)) return false;
+        for (double& v : y) {
+            v /= sum;
+            if (v <= settings.extinct_density) v = 0.0;
+        }
+        return true;
+    };
+    if (!normalise()) return r;
+    auto stepper = odeint::make_controlled<odeint::runge_kutta_dopri5<State>>(settings.integration_abs_tolerance,
+                                                                              settings.integration_rel_tolerance);
+    auto system = [&ode](const State& x, State& dxdt, double t) { ode(x, dxdt, t); };
+    for (;;) {
+        ode(y, f, 0.0);
+        double total = 0.0, sum = 0.0;
+        for (std::size_t c = 0; c < y.size(); ++c) {
+            total += f[c];
+            sum += y[c];
+        }
+        r.growth = total / sum;
+        double worst = 0.0;
+        for (std::size_t c = 0; c < y.size(); ++c)
+            if (y[c] > 0) worst = std::max(worst, std::fabs(f[c] - r.growth * y[c]) / y[c]);
+        if (worst < settings.polish_from) {
+            r.converged = true;
+            r.direction = y;
+            return r;
+        }
+        if (r.time >= settings.settle_time_max) return r;
+        // One unit of plain time at a time, so the shares stay far from overflow whatever the
+        // growth rate, and are renormalised between.
+        odeint::integrate_adaptive(stepper, system, y, 0.0, 1.0, 0.1);
+        r.time += 1.0;
+        if (!normalise()) return r;
+    }
+}
+
 }  // namespace tessera

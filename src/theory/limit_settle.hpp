@@ -23,6 +23,20 @@ struct SettleResult {
 // the equilibrium is that of the residents alone.
 SettleResult settle(const DeterministicOde& ode, std::vector<double> start, const LimitSettings& settings);
 
+// Below exponent 1 (no resident) competition and dormancy induction vanish and the system is
+// homogeneous of degree one (growth, resuscitation, frequency-dependent transfer tau A A' / N):
+// the dominant compartments approach a stable direction and grow along it at one rate.
+struct RayResult {
+    bool converged = false;
+    std::vector<double> direction;  // summing to 1; fractions at or below extinct_density set to 0
+    double growth = 0.0;            // per unit plain time
+    double time = 0.0;
+};
+// Integrates `ode` (conditions without competition, LimitModel::ode_below_one) from `start`,
+// renormalising, until no compartment's share changes faster than polish_from relative to
+// itself, or settle_time_max has passed.
+RayResult settle_ray(const DeterministicOde& ode, std::vector<double> start, const LimitSettings& settings);
+
 // The largest |dy/dt| over compartments above `floor`.
 double settle_residual(const DeterministicOde& ode, const std::vector<double>& y, double floor);
 
