@@ -124,7 +124,7 @@ TEST_CASE("predict writes limit_series.csv and limit_phases.csv and names the cy
     CHECK(out.empty());
 }
 
-TEST_CASE("run on one patch writes limit_series.csv; predict beside it keeps the run's settings", "[limit][cli]") {
+TEST_CASE("run on one patch writes limit_series.csv and predict beside it keeps the run settings", "[limit][cli]") {
     const fs::path f = write("small.toml", "[rates]\ntransfer = 1.5\nmutation_exponent = 0.5\n[scale]\nK = 1000\n"
                                            "[[inoculum]]\ntrait = [0.0, 0.0]\nexponent = 1.0\n"
                                            "[run]\nuntil = 0.2\nseed = 3\n[output]\nevery = 0.1\nfields_every = 0\n");

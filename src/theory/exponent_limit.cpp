@@ -18,61 +18,6 @@
 
 namespace tessera {
 
-const char* name_of(PhaseEnd end) {
-    switch (end) {
-        case PhaseEnd::invasion: return "invasion";
-        case PhaseEnd::until: return "until";
-        case PhaseEnd::no_equilibrium: return "no_equilibrium";
-        case PhaseEnd::no_resident: return "no_resident";
-        case PhaseEnd::tie: return "tie";
-        case PhaseEnd::schedule: return "schedule";
-    }
-    return "?";
-}
-
-double until_logK(const Scenario& s) { return s.time_unit == TimeUnit::logK ? s.until : s.until / std::log(s.K); }
-double output_every_logK(const Scenario& s) {
-    return s.time_unit == TimeUnit::logK ? s.output_every : s.output_every / std::log(s.K);
-}
-
-double LimitPrediction::exponent_at(int trait, double s) const {
-    if (knot_t_logK.empty() || s > stopped_at || s < 0 || std::isnan(s)) return std::nan("");
-    const auto after = std::upper_bound(knot_t_logK.begin(), knot_t_logK.end(), s);
-    const std::size_t k = static_cast<std::size_t>(after - knot_t_logK.begin()) - 1;  // last knot at or before s
-    const double b0 = knot_exponents[k][static_cast<std::size_t>(trait)];
-    if (k + 1 >= knot_t_logK.size()) return b0;
-    const double t0 = knot_t_logK[k], t1 = knot_t_logK[k + 1];
-    const double b1 = knot_exponents[k + 1][static_cast<std::size_t>(trait)];
-    return t1 > t0 ? b0 + (b1 - b0) * (s - t0) / (t1 - t0) : b1;
-}
-
-std::optional<std::string> limit_not_applicable(const Scenario& s) {
-    if (s.width * s.height != 1) {
-        return "the scenario has " + std::to_string(s.width) + " x " + std::to_string(s.height) +
-               " patches (lattice.width, lattice.height); the exponent limit describes one well-mixed patch";
-    }
-    if (!(s.K > 1)) return std::string("scale.K must be above 1 for exponents log(1 + N) / ln K");
-    if (s.rates.mutation_exponent == 0) {
-        return std::string("rates.mutation_exponent = 0 makes every offspring a mutant; the limit needs "
-                           "mutation_exponent > 0 (or inf for no mutation)");
-    }
-    const std::size_t cls = s.habitat_of_patch.empty() ? 0 : s.habitat_of_patch[0];
-    const Habitat home = cls < s.habitats.size() ? s.habitats[cls] : Habitat{};
-    if (!(home.capacity > 0)) return "the only patch is a wall (habitat \"" + home.name + "\" has capacity = 0)";
-    for (std::size_t i = 0; i < s.schedules.size(); ++i) {
-        const Schedule& sc = s.schedules[i];
-        if (sc.habitat != home.name) continue;  // never touches the one patch
-        const std::string key = "schedule[" + std::to_string(i + 1) + "]";
-        if (s.time_unit == TimeUnit::plain) {
-            return key + " (habitat \"" + sc.habitat + "\") is timed in plain time (run.time_unit = \"plain\"); the limit " +
-                   "changes conditions on the t / ln K scale only: set run.time_unit = \"logK\" and give its times in t / ln K";
-        }
-        if (sc.capacity && !(*sc.capacity > 0))
-            return key + " sets capacity = 0 (a wall) on the only patch; the limit needs a patch that holds cells";
-    }
-    return std::nullopt;
-}
-
 namespace {
 
 std::string number_text(double v) {
@@ -343,7 +288,9 @@ LimitPrediction LimitRun::run() {
                     continue;
                 }
             }
-            if (ev.kind == MotionEvent::none || s + ev.dt >= bound) {
+            // An event within tie_tolerance of run.until is at run.until (no phase of zero length).
+            const bool at_end = bound >= until_ && s + ev.dt > until_ - s_.tie_tolerance;
+            if (ev.kind == MotionEvent::none || s + ev.dt >= bound || at_end) {
                 for (std::size_t u = 0; u < beta.size(); ++u) beta[u] = std::clamp(beta[u] + v[u] * (bound - s), 0.0, 1.0);
                 s = bound;
                 comp = compartments_of(st, beta);
@@ -422,50 +369,6 @@ LimitPrediction LimitRun::run() {
 
 LimitPrediction predict_limit(const Scenario& scenario, const LimitSettings& settings) {
     return LimitRun(scenario, settings).run();
-}
-
-std::optional<ResidentCycle> find_cycle(const LimitPrediction& p, int min_repeats, double tolerance) {
-    auto complete = [&](std::size_t k) {
-        return k < p.phases.size() && (p.phases[k].end == PhaseEnd::invasion || p.phases[k].end == PhaseEnd::schedule);
-    };
-    auto same = [&](std::size_t a, std::size_t b) {
-        const LimitPhase &x = p.phases[a], &y = p.phases[b];
-        if (x.residents.size() != y.residents.size()) return false;
-        for (std::size_t k = 0; k < x.residents.size(); ++k)
-            if (x.residents[k].trait != y.residents[k].trait) return false;
-        const double dx = x.end_t_logK - x.start_t_logK, dy = y.end_t_logK - y.start_t_logK;
-        return std::fabs(dx - dy) <= tolerance;
-    };
-    const std::size_t n = p.phases.size();
-    for (std::size_t first = 0; first < n; ++first) {
-        for (std::size_t length = 1; first + 2 * length <= n; ++length) {
-            int repeats = 0;
-            for (;; ++repeats) {
-                const std::size_t at = first + static_cast<std::size_t>(repeats + 1) * length;
-                bool ok = true;
-                for (std::size_t k = 0; k < length && ok; ++k)
-                    ok = complete(first + k) && complete(at + k) && same(first + k, at + k);
-                if (!ok) break;
-            }
-            // A cycle changes residents: a sequence of one resident set (a schedule repeating
-            // under the same residents) is not one.
-            bool changes = false;
-            for (std::size_t k = 1; k < length && !changes; ++k) {
-                const auto &a = p.phases[first].residents, &b = p.phases[first + k].residents;
-                changes = a.size() != b.size() ||
-                          !std::equal(a.begin(), a.end(), b.begin(), [](const ResidentState& x, const ResidentState& y) {
-                              return x.trait == y.trait;
-                          });
-            }
-            if (changes && repeats >= std::max(1, min_repeats)) {
-                ResidentCycle c{first, length, 0.0, repeats};
-                for (std::size_t k = 0; k < length; ++k)
-                    c.period += p.phases[first + k].end_t_logK - p.phases[first + k].start_t_logK;
-                return c;
-            }
-        }
-    }
-    return std::nullopt;
 }
 
 }  // namespace tessera
