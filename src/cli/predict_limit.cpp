@@ -26,7 +26,7 @@ std::string num(double v) {
 std::string trait_text(const TraitGrid& g, int i) { return "(" + num(g.dormancy(i)) + ", " + num(g.transfer(i)) + ")"; }
 
 std::string set_text(const TraitGrid& g, const LimitPhase& p) {
-    if (p.residents.empty()) return "no resident";
+    if (p.residents.empty()) return p.end == PhaseEnd::no_equilibrium ? "(not settled)" : "no resident";
     std::string t;
     for (std::size_t k = 0; k < p.residents.size(); ++k) t += (k ? " + " : "") + trait_text(g, p.residents[k].trait);
     return t;

@@ -205,9 +205,15 @@ LimitPrediction LimitRun::run() {
         const SettleResult settled = settle(ode, start, s_);
         if (!settled.converged) {
             stop(phase, PhaseEnd::no_equilibrium, s,
-                 "at t/lnK = " + number_text(s) + " the deterministic limit reaches no equilibrium within " +
-                     number_text(s_.settle_time_max) + " units of plain time (densities still change at rate " +
-                     number_text(settled.residual) + " per unit time)");
+                 "at t/lnK = " + number_text(s) + " the deterministic limit reaches no equilibrium" +
+                     (settled.unbounded      ? " (a density grows past " + number_text(s_.density_max) + " K)"
+                      : settled.out_of_steps ? " within " + std::to_string(s_.settle_steps_max) +
+                                                   " integration steps (plain time " + number_text(settled.time) +
+                                                   "; densities still change at rate " + number_text(settled.residual) +
+                                                   " per unit time)"
+                                             : " within " + number_text(s_.settle_time_max) +
+                                              " units of plain time (densities still change at rate " +
+                                              number_text(settled.residual) + " per unit time)"));
             return out_;
         }
         Structure st;

@@ -69,8 +69,17 @@ struct LimitSettings {
     double tie_tolerance = 1e-9;
     // Step integration tolerances of the settling (Boost.Odeint dopri5, absolute in units of
     // K and relative): far below extinct_density, so no resident is lost to integration error.
-    double integration_abs_tolerance = 1e-13;
-    double integration_rel_tolerance = 1e-10;
+    // The settled state is polished by Newton's method, so the integration only has to land
+    // near the right equilibrium.
+    double integration_abs_tolerance = 1e-12;
+    double integration_rel_tolerance = 1e-8;
+    // A density (units of K) above this while settling: the deterministic limit grows without
+    // bound (e.g. a dormant pool that never dies, kappa = 0 with q = 1), no equilibrium.
+    double density_max = 1e6;
+    // Integration steps allowed per settling: a settled phase takes hundreds; a limit that
+    // creeps towards no equilibrium (stiff from a growing pool, or algebraically slow) would
+    // otherwise take hours of explicit steps to reach settle_time_max.
+    std::size_t settle_steps_max = 200000;
     // Finite-difference step (units of K) of the non-resident Jacobian; with Richardson
     // extrapolation its error is O(step^2) ~ 1e-12 in a fitness.
     double jacobian_step = 1e-6;

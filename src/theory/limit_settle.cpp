@@ -36,7 +36,8 @@ double relative_residual(const DeterministicOde& ode, const State& y, double flo
 // Integrates in chunks of growing length until `done(y)` or out of time; negative rounding
 // below zero is cut off after each chunk.
 template <class Done>
-bool integrate_until(const DeterministicOde& ode, State& y, double& time, const LimitSettings& s, Done done) {
+bool integrate_until(const DeterministicOde& ode, State& y, double& time, std::size_t& steps, const LimitSettings& s,
+                     Done done) {
     namespace odeint = boost::numeric::odeint;
     auto stepper = odeint::make_controlled<odeint::runge_kutta_dopri5<State>>(s.integration_abs_tolerance,
                                                                               s.integration_rel_tolerance);
@@ -45,8 +46,9 @@ bool integrate_until(const DeterministicOde& ode, State& y, double& time, const 
     for (;;) {
         if (done(y)) return true;
         if (time >= s.settle_time_max) return false;
+        if (*std::max_element(y.begin(), y.end()) > s.density_max || steps > s.settle_steps_max) return false;
         const double span = std::min(chunk, s.settle_time_max - time);
-        odeint::integrate_adaptive(stepper, system, y, time, time + span, std::min(0.1, span));
+        steps += odeint::integrate_adaptive(stepper, system, y, time, time + span, std::min(0.1, span));
         time += span;
         for (double& v : y) v = std::max(v, 0.0);
         chunk = std::min(2.0 * chunk, 1000.0);
@@ -110,7 +112,7 @@ SettleResult settle(const DeterministicOde& ode, std::vector<double> start, cons
             if (v <= floor) v = 0.0;
     };
     for (double target = settings.polish_from; target >= 1e-12; target *= 1e-2) {
-        r.converged = integrate_until(ode, r.densities, r.time, settings,
+        r.converged = integrate_until(ode, r.densities, r.time, r.steps, settings,
                                       [&](const State& y) { return relative_residual(ode, y, floor) < target; });
         if (!r.converged) break;
         zero_extinct();
@@ -126,6 +128,8 @@ SettleResult settle(const DeterministicOde& ode, std::vector<double> start, cons
     }
     r.residual = settle_residual(ode, r.densities, floor);
     r.converged = false;
+    r.unbounded = *std::max_element(r.densities.begin(), r.densities.end()) > settings.density_max;
+    r.out_of_steps = r.steps > settings.settle_steps_max;
     return r;
 }
 
@@ -166,8 +170,9 @@ RayResult settle_ray(const DeterministicOde& ode, std::vector<double> start, con
         if (r.time >= settings.settle_time_max) return r;
         // One unit of plain time at a time, so the shares stay far from overflow whatever the
         // growth rate, and are renormalised between.
-        odeint::integrate_adaptive(stepper, system, y, 0.0, 1.0, 0.1);
+        r.steps += odeint::integrate_adaptive(stepper, system, y, 0.0, 1.0, 0.1);
         r.time += 1.0;
+        if (r.steps > settings.settle_steps_max) return r;
         if (!normalise()) return r;
     }
 }

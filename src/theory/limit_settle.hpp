@@ -3,6 +3,7 @@
 // runge_kutta_dopri5 (Dormand & Prince 1980), step size controlled.
 #pragma once
 
+#include <cstddef>
 #include <vector>
 
 #include "core/deterministic_ode.hpp"
@@ -15,6 +16,9 @@ struct SettleResult {
     std::vector<double> densities;  // units of K; compartments at or below extinct_density set to 0
     double time = 0.0;              // plain time integrated
     double residual = 0.0;          // largest |d density / dt| among the compartments kept
+    bool unbounded = false;         // stopped because a density passed density_max
+    bool out_of_steps = false;      // stopped after settle_steps_max integration steps
+    std::size_t steps = 0;
 };
 
 // Integrates `ode` (one patch) from `start` until no compartment above extinct_density
@@ -31,6 +35,7 @@ struct RayResult {
     std::vector<double> direction;  // summing to 1; fractions at or below extinct_density set to 0
     double growth = 0.0;            // per unit plain time
     double time = 0.0;
+    std::size_t steps = 0;
 };
 // Integrates `ode` (conditions without competition, LimitModel::ode_below_one) from `start`,
 // renormalising, until no compartment's share changes faster than polish_from relative to
