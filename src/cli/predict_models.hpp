@@ -12,6 +12,10 @@ namespace tessera::cli {
 // quiet. Returns the exit code.
 int predict_limit_into(const Scenario& scenario, const std::filesystem::path& dir, bool quiet);
 
+// Beside a fresh one-patch run: limit_series.csv when the limit applies (nothing, silently,
+// when it does not). False only when the file cannot be written.
+bool write_limit_beside_run(const Scenario& scenario, const std::filesystem::path& dir);
+
 // --model ode: ode_series.csv, ode_habitat_series.csv and ode_fields.h5, and a summary on
 // stdout unless quiet. Returns the exit code.
 int predict_ode_into(const Scenario& scenario, const std::filesystem::path& dir, bool quiet);

@@ -18,6 +18,7 @@
 #include "cli/checkpoint_keeper.hpp"
 #include "cli/csv_output.hpp"
 #include "cli/output_directory.hpp"
+#include "cli/predict_models.hpp"
 #include "cli/progress.hpp"
 #include "core/count_limit.hpp"
 #include "core/engine.hpp"
@@ -285,6 +286,7 @@ int run_session(const Scenario& scenario, const std::string& out_dir, const Sess
         std::cerr << "error: cannot write " << (dir / "scenario.resolved.toml").string() << "\n";
         return 2;
     }
+    if (!write_limit_beside_run(scenario, dir)) return 2;  // one patch: the exponent limit beside the series
     return simulate(scenario, dir, nullptr, options);
 }
 

@@ -1,8 +1,8 @@
 #include "io/series_writer.hpp"
 
+#include "io/number_text.hpp"
+
 #include <cmath>
-#include <cstdio>
-#include <cstdlib>
 #include <vector>
 
 namespace tessera {
@@ -11,30 +11,6 @@ std::string series_header() { return "replicate,t,t_logK,dormancy,transfer,activ
 std::string habitat_series_header() { return "replicate,t,t_logK,habitat,dormancy,transfer,active,dormant\n"; }
 
 namespace {
-
-// Shortest text that reads back to the same double.
-void append_number(std::string& out, double v) {
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.17g", v);
-    // Prefer a shorter spelling when it is exact (most times and trait levels are).
-    for (int precision = 6; precision < 17; ++precision) {
-        char shorter[32];
-        std::snprintf(shorter, sizeof shorter, "%.*g", precision, v);
-        if (std::strtod(shorter, nullptr) == v) {
-            out += shorter;
-            return;
-        }
-    }
-    out += buf;
-}
-
-// Times with 12 significant digits: output times are multiples of an interval, and the
-// last bits of j * every (or of t / ln K) are rounding, not information.
-void append_time(std::string& out, double t) {
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.12g", t);
-    out += buf;
-}
 
 // Totals over patches: each patch holds fewer than 2^62 cells (core/count_limit.hpp), but
 // a lattice of them can hold more than 2^63, so they are summed and written in 128 bits.

@@ -1,0 +1,15 @@
+// Numbers in CSV outputs, one spelling for every file (series.csv, limit_series.csv, ...).
+#pragma once
+
+#include <string>
+
+namespace tessera {
+
+// Shortest text that reads back to the same double (trait levels, counts, exponents).
+void append_number(std::string& out, double v);
+
+// Times with 12 significant digits: output times are multiples of an interval, and the last
+// bits of j * every (or of t / ln K) are rounding, not information.
+void append_time(std::string& out, double t);
+
+}  // namespace tessera
