@@ -69,9 +69,12 @@ std::optional<LoadedGrid> load_grid(const std::string& scenario_file, const std:
             for (const Diagnostic& d : e.diagnostics()) {
                 // A problem with an axis value names the key and the value; any other (the
                 // file itself, or a combination of values) names the point's values.
-                std::string line;
+                std::string line, same;  // `same`: what makes two lines the same fault
                 for (const std::string& a : axis_sets) {
-                    if (key_of_set(a) == d.key) line = "--vary " + a + ": " + d.message;
+                    if (key_of_set(a) == d.key) {
+                        line = "--vary " + a + ": " + d.message;
+                        same = d.key + ": " + d.message;  // an unknown key is reported once, not per value
+                    }
                 }
                 if (line.empty()) {
                     std::string where;
@@ -79,8 +82,9 @@ std::optional<LoadedGrid> load_grid(const std::string& scenario_file, const std:
                     line = d.to_string() + " (at the sweep point " + where + ")";
                     // The same fault at every point is reported once.
                     if (d.file != "--set") line = d.to_string();
+                    same = line;
                 }
-                if (reported.size() < max_reported && reported.insert(line).second)
+                if (reported.size() < max_reported && reported.insert(same).second)
                     std::cerr << "error: " << line << "\n";
             }
         }
