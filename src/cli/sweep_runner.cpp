@@ -184,6 +184,8 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
     if (const char* hook = std::getenv("TESSERA_SWEEP_STOP_AFTER")) stop_after = std::strtoull(hook, nullptr, 10);
 
     Progress progress(static_cast<int>(count), !options.quiet && Progress::stderr_is_terminal());
+    progress.show_count(static_cast<int>(mine.size()), "points");
+    progress.count_done(static_cast<int>(first));
     std::mutex writer;
     std::size_t next_to_write = 0;  // index into slots
     std::string failure;
@@ -233,6 +235,7 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
                 throw std::runtime_error((dir / state_name).string() + ": cannot be written");
             slots[next_to_write].reset(new PointSlot());  // free the results
             ++next_to_write;
+            progress.count_done(static_cast<int>(first + next_to_write));
             if (stop_after > 0 && next_to_write == stop_after && next_to_write < count) {
                 stop_signal = SIGINT;
                 stop_requested = true;
