@@ -46,11 +46,11 @@ std::uint64_t to_u64(const fs::path& file, const std::string& key, const std::st
     return x;
 }
 
-bool write_durably(const fs::path& file, const std::string& text) {
+bool write_durably(const fs::path& file, const std::string& text, bool sync = true) {
     const fs::path temporary = file.string() + ".tmp";
     std::FILE* f = std::fopen(temporary.c_str(), "wb");
     if (!f) return false;
-    bool ok = std::fwrite(text.data(), 1, text.size(), f) == text.size() && std::fflush(f) == 0 && ::fsync(fileno(f)) == 0;
+    bool ok = std::fwrite(text.data(), 1, text.size(), f) == text.size() && std::fflush(f) == 0 && (!sync || ::fsync(fileno(f)) == 0);
     ok = std::fclose(f) == 0 && ok;
     if (!ok) return false;
     std::error_code ec;
@@ -148,11 +148,11 @@ SweepState read_state(const fs::path& file) {
     return s;
 }
 
-bool write_state(const fs::path& file, const SweepState& s) {
+bool write_state(const fs::path& file, const SweepState& s, bool sync) {
     std::ostringstream o;
     o << "points_done=" << s.points_done << "\noutcomes_bytes=" << s.outcomes_bytes
       << "\nfinal_exponents_bytes=" << s.final_exponents_bytes << "\nsummary_bytes=" << s.summary_bytes << "\n";
-    return write_durably(file, o.str());
+    return write_durably(file, o.str(), sync);
 }
 
 }  // namespace tessera::cli

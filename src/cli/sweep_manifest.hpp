@@ -54,7 +54,9 @@ struct SweepState {
 };
 
 SweepState read_state(const std::filesystem::path& file);  // throws std::runtime_error
-// Written beside, fsync'ed, renamed over: either the old or the new state survives a crash.
-bool write_state(const std::filesystem::path& file, const SweepState& state);
+// Written beside and renamed over: a killed process leaves the old or the new state. With
+// `sync` the new one is fsync'ed first, so that it also survives a power cut (the caller
+// fsyncs the tables it describes before).
+bool write_state(const std::filesystem::path& file, const SweepState& state, bool sync = true);
 
 }  // namespace tessera::cli

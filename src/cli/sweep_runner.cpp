@@ -3,7 +3,10 @@
 #include <tbb/global_control.h>
 #include <tbb/info.h>
 
+#include <unistd.h>
+
 #include <atomic>
+#include <chrono>
 #include <csignal>
 #include <cstdio>
 #include <cstdlib>
@@ -68,6 +71,10 @@ public:
             throw std::runtime_error(file_.string() + ": cannot be written: " + std::strerror(errno));
     }
     std::uint64_t bytes() { return static_cast<std::uint64_t>(std::ftell(handle_)); }
+    void sync() {
+        if (handle_ && ::fsync(fileno(handle_)) != 0)
+            throw std::runtime_error(file_.string() + ": cannot be written: " + std::strerror(errno));
+    }
     void close() {
         if (handle_) std::fclose(handle_);
         handle_ = nullptr;
@@ -190,6 +197,7 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
     std::size_t next_to_write = 0;  // index into slots
     std::string failure;
     std::atomic<std::size_t> next_item{0};
+    auto last_sync = std::chrono::steady_clock::now();
 
     // Writes every ready point at the head of the buffer (caller holds `writer`).
     auto drain = [&]() {
@@ -231,7 +239,18 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
             state.outcomes_bytes = outcomes.bytes();
             state.final_exponents_bytes = finals.bytes();
             state.summary_bytes = summary.bytes();
-            if (!write_state(dir / state_name, state))
+            // fsync at most once a second: a sweep of quick points (the limit) would otherwise
+            // spend its time waiting for the disk. A kill loses nothing either way (the page
+            // cache survives it); a power cut loses at most the last second's points.
+            const auto now = std::chrono::steady_clock::now();
+            const bool sync = now - last_sync >= std::chrono::seconds(1) || first + next_to_write + 1 == mine.size();
+            if (sync) {
+                outcomes.sync();
+                finals.sync();
+                summary.sync();
+                last_sync = now;
+            }
+            if (!write_state(dir / state_name, state, sync))
                 throw std::runtime_error((dir / state_name).string() + ": cannot be written");
             slots[next_to_write].reset(new PointSlot());  // free the results
             ++next_to_write;
@@ -288,6 +307,14 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
         }
     });
     progress.finish();
+    try {
+        outcomes.sync();
+        finals.sync();
+        summary.sync();
+        write_state(dir / state_name, state, true);
+    } catch (const std::exception&) {
+        // The state already written stays valid: it never names bytes that were not written.
+    }
     outcomes.close();
     finals.close();
     summary.close();
