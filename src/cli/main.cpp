@@ -61,9 +61,9 @@ int main(int argc, char** argv) {
     SweepOptions sweep;
     auto* sweep_cmd = app.add_subcommand(
         "sweep", "Run a scenario over a grid of parameter values; classify every point into regimes");
-    sweep_cmd->description(
-        "Run a scenario over a grid of parameter values and classify what each point ends in: extinct,\n"
-        "resident (one trait leads), coexistence (several lead) or cycling (the leaders take turns).\n"
+    sweep_cmd->footer(
+        "Each point ends in a regime: extinct, resident (one trait leads), coexistence (several lead)\n"
+        "or cycling (the leaders take turns; docs/model.md section 4).\n"
         "Each --vary names a scenario key (as --set does) and its values:\n"
         "  --vary rates.dormancy_probability=0:0.25:11     11 values from 0 to 0.25, ends included\n"
         "  --vary scale.K=log:1e3:1e6:4                    4 values evenly spaced in log: 1e3 1e4 1e5 1e6\n"
