@@ -283,3 +283,27 @@ TEST_CASE("sweep: --keep-series writes each point's series; run --replicates wri
                 .code == 0);
     CHECK_FALSE(fs::exists(one / "ensemble.csv"));
 }
+
+TEST_CASE("sweep: replicate r of point i does not depend on how many replicates there are", "[sweep]") {
+    const fs::path d = scratch() / "two-replicates";
+    std::vector<std::string> a = sweep_args(d);
+    for (std::size_t k = 0; k + 1 < a.size(); ++k) {
+        if (a[k] == "--replicates") a[k + 1] = "2";
+    }
+    REQUIRE(run(a).code == 0);
+    // The rows of replicates 0 and 1 in the 3-replicate sweep, in order, are the 2-replicate sweep's.
+    auto rows_below = [](const std::string& text, int replicates) {
+        std::string out;
+        std::size_t pos = text.find('\n') + 1;
+        while (pos < text.size()) {
+            const std::size_t end = text.find('\n', pos);
+            const std::string row = text.substr(pos, end + 1 - pos);
+            const std::size_t c1 = row.find(','), c2 = row.find(',', c1 + 1);
+            if (std::stoi(row.substr(c2 + 1)) < replicates) out += row;
+            pos = end + 1;
+        }
+        return out;
+    };
+    for (const char* t : {"outcomes.csv", "final_exponents.csv"})
+        CHECK(rows_below(slurp(d / t), 2) == rows_below(slurp(reference() / t), 2));
+}
