@@ -25,7 +25,7 @@ TEST_CASE("log ranges are evenly spaced in log", "[grid]") {
     CHECK(parse_vary("rates.transfer=log:0.01:1:3").values == strings{"0.01", "0.1", "1"});
 }
 
-TEST_CASE("lists keep their values as written; commas inside brackets and quotes do not split", "[grid]") {
+TEST_CASE("lists keep their values as written, and commas inside brackets and quotes do not split", "[grid]") {
     CHECK(parse_vary("rates.transfer_form=frequency,density").values == strings{"frequency", "density"});
     CHECK(parse_vary("inoculum[1].trait=[0.0, 0.0],[2.0, 0.0]").values == strings{"[0.0, 0.0]", "[2.0, 0.0]"});
     CHECK(parse_vary("inoculum[1].where=\"patch:0,0\",\"patch:1,1\"").values ==

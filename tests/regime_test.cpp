@@ -61,7 +61,7 @@ TEST_CASE("a population that grew and then died out is extinct", "[regime]") {
     CHECK_FALSE(o.period);
 }
 
-TEST_CASE("one trait at exponent 1 is resident; a trait just below 1 - eps is not", "[regime]") {
+TEST_CASE("one trait at exponent 1 is resident, a trait just below 1 - eps is not", "[regime]") {
     RegimeSettings settings;  // eps 0.1
     const auto s = series_of(3, 10, [](double) { return std::vector<double>{0.5, 1.02, 0.89}; });
     const Outcome o = classify_series(s, settings);
@@ -91,7 +91,7 @@ TEST_CASE("a leading set that rotates through three traits is cycling, with its 
     CHECK(*o.period == Approx(1.5).margin(1e-9));
 }
 
-TEST_CASE("a single return to an earlier set is not a cycle; the set at the end decides", "[regime]") {
+TEST_CASE("a single return to an earlier set is not a cycle: the set at the end decides", "[regime]") {
     // A leads, then B for a while, then A again: one return in the final window.
     const auto s = series_of(2, 20, [](double t) {
         const bool b = t > 16.0 && t < 18.0;
@@ -150,7 +150,7 @@ TEST_CASE("a run still in transition at its end is classified by where it got to
     CHECK(o.residents == std::vector<int>{1});
 }
 
-TEST_CASE("residents are written x:y joined by ';' in trait order", "[regime]") {
+TEST_CASE("residents are written x:y joined by semicolons in trait order", "[regime]") {
     const std::vector<std::string> names{"0:0", "0:2", "2:0", "2:2"};
     CHECK(residents_text({0, 3}, names) == "0:0;2:2");
     CHECK(residents_text({}, names).empty());
@@ -194,7 +194,7 @@ TEST_CASE("limit: the residents of the last phase decide", "[regime][limit]") {
     CHECK(o.residents == std::vector<int>{0, 2});
 }
 
-TEST_CASE("limit: no resident and nothing alive is extinct; no resident but cells alive is not", "[regime][limit]") {
+TEST_CASE("limit: no resident and nothing alive is extinct, no resident but cells alive is not", "[regime][limit]") {
     const auto dead = prediction({phase(0, 3, {0}), phase(3, 10, {})}, {0.0, 0.0, 0.0});
     CHECK(classify_limit(dead).regime == Regime::extinct);
     CHECK(classify_limit(dead).residents.empty());

@@ -256,7 +256,7 @@ TEST_CASE("sweep: a scenario changed since the sweep started is not resumed", "[
     CHECK_THAT(r.err, Contains("has changed since the sweep started"));
 }
 
-TEST_CASE("sweep: --keep-series writes each point's series; run --replicates writes ensemble.csv", "[sweep]") {
+TEST_CASE("sweep: --keep-series writes each point's series, and run --replicates writes ensemble.csv", "[sweep]") {
     const fs::path d = scratch() / "kept";
     REQUIRE(run({"sweep", scenario().string(), "--vary", "rates.transfer=1,2", "--replicates", "2", "--set",
                  "scale.K=300", "--set", "run.until=2", "--keep-series", "--quiet", "--out", d.string()})
