@@ -19,6 +19,8 @@ int resume_command(const ResumeOptions& o) {
         std::cerr << "error: " << dir.string() << ": not a directory; accepted: the --out directory of 'tessera run'\n";
         return 2;
     }
+    // A sweep directory holds sweep.manifest; a run directory holds checkpoint.bin.
+    if (std::filesystem::exists(dir / "sweep.manifest", ec)) return resume_sweep(o.run_dir, o.threads, o.quiet);
     const std::filesystem::path file = dir / "checkpoint.bin";
     Checkpoint checkpoint;
     try {

@@ -33,8 +33,8 @@ int main(int argc, char** argv) {
     run_cmd->add_flag("--overwrite", run.overwrite, "Allow --out to name a directory that already holds a run");
 
     ResumeOptions resume;
-    auto* resume_cmd = app.add_subcommand("resume", "Continue an interrupted run from its checkpoint (bit for bit)");
-    resume_cmd->add_option("run_dir", resume.run_dir, "Output directory of the interrupted 'tessera run'")->required();
+    auto* resume_cmd = app.add_subcommand("resume", "Continue an interrupted run or sweep (bit for bit)");
+    resume_cmd->add_option("run_dir", resume.run_dir, "Output directory of the interrupted 'tessera run' or 'tessera sweep'")->required();
     resume_cmd->add_option("--threads", resume.threads, "Worker threads, 0 = all cores (results do not depend on it)")
         ->check(CLI::NonNegativeNumber);
     resume_cmd->add_flag("--quiet", resume.quiet, "No progress bar or messages");
@@ -57,6 +57,52 @@ int main(int argc, char** argv) {
     predict_cmd->add_option("--out", predict.out, "Output directory (default: <scenario name>-predict); may be a run's");
     predict_cmd->add_flag("--overwrite", predict.overwrite, "Replace an earlier prediction of the same model in --out");
     predict_cmd->add_flag("--quiet", predict.quiet, "Print nothing but errors");
+
+    SweepOptions sweep;
+    auto* sweep_cmd = app.add_subcommand(
+        "sweep", "Run a scenario over a grid of parameter values; classify every point into regimes");
+    sweep_cmd->footer(
+        "Each point ends in a regime: extinct, resident (one trait leads), coexistence (several lead)\n"
+        "or cycling (the leaders take turns; docs/model.md section 5).\n"
+        "Each --vary names a scenario key (as --set does) and its values:\n"
+        "  --vary rates.dormancy_probability=0:0.25:11     11 values from 0 to 0.25, ends included\n"
+        "  --vary scale.K=log:1e3:1e6:4                    4 values evenly spaced in log: 1e3 1e4 1e5 1e6\n"
+        "  --vary rates.transfer_form=frequency,density    the values listed\n"
+        "Several --vary make a grid (every combination; the last axis changes fastest). Every point is\n"
+        "checked as 'tessera check' would check it before anything runs. Example:\n"
+        "  tessera sweep maps/well-mixed/scenario.toml --vary rates.dormancy_probability=0:0.25:6 \\\n"
+        "      --replicates 8 --out p-sweep\n"
+        "writes points.csv, outcomes.csv (one row per replicate), final_exponents.csv and summary.csv\n"
+        "(fractions per regime and per resident trait, with Wilson 95% intervals) as points finish.\n"
+        "Ctrl-C keeps the finished points; 'tessera resume DIR' continues.");
+    sweep_cmd->add_option("scenario", sweep.scenario, "Scenario file (TOML)");
+    sweep_cmd->add_option("--vary", sweep.vary, "An axis: KEY=FROM:TO:N, KEY=log:FROM:TO:N or KEY=v1,v2,... (repeatable)")
+        ->type_name("KEY=VALUES");
+    sweep_cmd->add_option("--set", sweep.sets, "Override a scenario key at every point (repeatable)")->type_name("KEY=VALUE");
+    sweep_cmd->add_option("--with", sweep.with,
+                          "run: stochastic replicates; limit: the K -> infinity exponent limit (one patch); both. "
+                          "Default: both where the limit applies, else run")
+        ->check(CLI::IsMember({"limit", "run", "both"}));
+    sweep_cmd->add_option("--replicates", sweep.replicates, "Stochastic replicates per point (default 10)")
+        ->check(CLI::PositiveNumber);
+    sweep_cmd->add_option("--seed", sweep.seed, "Base seed (default: run.seed); each point gets its own seed from it");
+    sweep_cmd->add_option("--threads", sweep.threads, "Worker threads, 0 = all cores (results do not depend on it)")
+        ->check(CLI::NonNegativeNumber);
+    sweep_cmd->add_option("--shard", sweep.shard,
+                          "Run only every N-th point, starting at point I-1 (I from 1 to N), for job arrays; "
+                          "join the shards with --merge")
+        ->type_name("I/N");
+    sweep_cmd->add_option("--merge", sweep.merge, "Join the finished shard directories DIR... into --out")
+        ->type_name("DIR")
+        ->expected(1, -1);
+    sweep_cmd->add_option("--out", sweep.out, "Output directory")->type_name("DIR");
+    sweep_cmd->add_option("--eps", sweep.eps,
+                          "A trait leads when its exponent is within EPS of 1 (or of the top trait's); default 0.1");
+    sweep_cmd->add_option("--final-window", sweep.final_window,
+                          "Fraction of a run, at its end, in which cycles are looked for; default 0.25");
+    sweep_cmd->add_flag("--keep-series", sweep.keep_series, "Also write every point's series.csv in points/NNNN/");
+    sweep_cmd->add_flag("--overwrite", sweep.overwrite, "Allow --out to name a directory that already holds outputs");
+    sweep_cmd->add_flag("--quiet", sweep.quiet, "No progress line, no table at the end");
 
     DemoOptions demo;
     demo.program = argv[0];
@@ -99,6 +145,7 @@ int main(int argc, char** argv) {
         if (*resume_cmd) return resume_command(resume);
         if (*check_cmd) return check_command(check);
         if (*predict_cmd) return predict_command(predict);
+        if (*sweep_cmd) return sweep_command(sweep);
         if (*demo_cmd) return demo_command(demo);
         if (*render_cmd) return render_command(render);
         if (*view_cmd) return view_command(view);

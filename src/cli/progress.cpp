@@ -40,6 +40,12 @@ void Progress::report(int part, double fraction_done) {
     fractions_[static_cast<std::size_t>(part)].store(fraction_done, std::memory_order_relaxed);
 }
 
+void Progress::show_count(int total, std::string unit) {
+    std::lock_guard lock(mutex_);
+    count_total_ = total;
+    count_unit_ = std::move(unit);
+}
+
 void Progress::loop() {
     std::unique_lock lock(mutex_);
     while (!done_) {
@@ -70,11 +76,17 @@ void Progress::draw(bool final) {
     const int filled = static_cast<int>(done * width);
     std::string bar(static_cast<std::size_t>(filled), '#');
     bar.append(static_cast<std::size_t>(width - filled), '.');
+    std::string count;
+    if (count_total_ > 0) {
+        count = "  " + std::to_string(final ? count_total_ : count_done_.load(std::memory_order_relaxed)) + "/" +
+                std::to_string(count_total_) + " " + count_unit_;
+    }
     if (final) {
-        std::fprintf(stderr, "\r[%s] 100%%  done in %s          \n", bar.c_str(), duration_text(elapsed).c_str());
+        std::fprintf(stderr, "\r[%s] 100%%%s  done in %s          \n", bar.c_str(), count.c_str(),
+                     duration_text(elapsed).c_str());
     } else {
-        std::fprintf(stderr, "\r[%s] %3d%%  elapsed %s  left ~%s   ", bar.c_str(),
-                     static_cast<int>(done * 100), duration_text(elapsed).c_str(), duration_text(left).c_str());
+        std::fprintf(stderr, "\r[%s] %3d%%%s  elapsed %s  left ~%s   ", bar.c_str(), static_cast<int>(done * 100),
+                     count.c_str(), duration_text(elapsed).c_str(), duration_text(left).c_str());
     }
     std::fflush(stderr);
 }

@@ -22,6 +22,9 @@ public:
 
     void report(int part, double fraction_done);  // fraction in [0, 1]
     void finish();                               // draws 100% and ends the line
+    // Also shows "done/total unit" (e.g. "3/20 points"), done reported by count_done.
+    void show_count(int total, std::string unit);
+    void count_done(int done) { count_done_.store(done, std::memory_order_relaxed); }
 
     static bool stderr_is_terminal();
 
@@ -36,6 +39,9 @@ private:
     std::condition_variable wake_;
     bool done_ = false;
     std::thread painter_;
+    std::atomic<int> count_done_{0};
+    int count_total_ = 0;  // 0: no count shown
+    std::string count_unit_;
 };
 
 }  // namespace tessera::cli

@@ -20,6 +20,7 @@
 #include "cli/output_directory.hpp"
 #include "cli/predict_models.hpp"
 #include "cli/progress.hpp"
+#include "cli/run_ensemble.hpp"
 #include "core/count_limit.hpp"
 #include "core/engine.hpp"
 #include "core/parallel.hpp"
@@ -250,7 +251,7 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
     if (complete) {
         std::signal(SIGINT, SIG_DFL);
         std::signal(SIGTERM, SIG_DFL);
-        if (!series.finish() || !habitat_series.finish()) return 2;
+        if (!series.finish() || !habitat_series.finish() || !write_run_ensemble(dir, scenario, R)) return 2;
         if (!options.quiet) std::cout << "outputs written to " << dir.string() << "/\n";
         return 0;
     }
