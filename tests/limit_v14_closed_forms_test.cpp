@@ -335,3 +335,26 @@ TEST_CASE("V14: below exponent 1 frequency-dependent transfer acts among the dom
         CHECK(p.phases[0].invaders == std::vector<int>{y2});
     }
 }
+
+TEST_CASE("V14: a deterministic limit without equilibrium stops the prediction at once", "[limit][v14]") {
+    // One trait whose every competition encounter makes a cell dormant (q = 1) and whose
+    // dormant cells never die (kappa = 0): d(a + z)/dt = (b - d) a > 0 for ever, so the
+    // dormant pool grows without bound and no equilibrium exists. density_max is lowered so
+    // the test stops in milliseconds (the reason is the same at the default).
+    Scenario s = limittest::scenario();
+    RateOverride o = limittest::override_of(0.0, 0.0);
+    o.dormancy_probability = 1.0;
+    s.rates.overrides = {o};
+    s.rates.dormant_death = 0.0;
+    s.inocula = {limittest::cells(s, 0, 0, 1.0)};
+    LimitSettings settings;
+    settings.density_max = 100.0;
+    const LimitPrediction p = predict_limit(s, settings);
+    REQUIRE(p.phases.size() == 1);
+    CHECK(p.phases[0].end == PhaseEnd::no_equilibrium);
+    CHECK(p.stopped_at == 0.0);
+    CHECK_THAT(p.stop_reason, Catch::Matchers::Contains("t/lnK = 0") && Catch::Matchers::Contains("no equilibrium") &&
+                                  Catch::Matchers::Contains("grows past 100"));
+    CHECK(p.exponent_at(0, 0.0) == 1.0);
+    CHECK(std::isnan(p.exponent_at(0, 0.5)));
+}

@@ -41,7 +41,14 @@ bool integrate_until(const DeterministicOde& ode, State& y, double& time, std::s
     namespace odeint = boost::numeric::odeint;
     auto stepper = odeint::make_controlled<odeint::runge_kutta_dopri5<State>>(s.integration_abs_tolerance,
                                                                               s.integration_rel_tolerance);
-    auto system = [&ode](const State& x, State& dxdt, double t) { ode(x, dxdt, t); };
+    // The right-hand side sees the state cut at 0: an intermediate stage may overshoot below
+    // 0, where the model means nothing (and tau / n blows up as n passes 0).
+    State cut;
+    auto system = [&ode, &cut](const State& x, State& dxdt, double t) {
+        cut.resize(x.size());
+        for (std::size_t c = 0; c < x.size(); ++c) cut[c] = std::max(x[c], 0.0);
+        ode(cut, dxdt, t);
+    };
     double chunk = 1.0;
     for (;;) {
         if (done(y)) return true;
@@ -50,7 +57,10 @@ bool integrate_until(const DeterministicOde& ode, State& y, double& time, std::s
         const double span = std::min(chunk, s.settle_time_max - time);
         steps += odeint::integrate_adaptive(stepper, system, y, time, time + span, std::min(0.1, span));
         time += span;
-        for (double& v : y) v = std::max(v, 0.0);
+        for (double& v : y) {
+            if (!std::isfinite(v)) return false;
+            v = std::max(v, 0.0);
+        }
         chunk = std::min(2.0 * chunk, 1000.0);
     }
 }
@@ -140,7 +150,7 @@ RayResult settle_ray(const DeterministicOde& ode, std::vector<double> start, con
     auto normalise = [&] {
         double sum = 0.0;
         for (double& v : y) sum += v = std::max(v, 0.0);
-        if (!(sum > 0)) return false;
+        if (!(sum > 0) || !std::isfinite(sum)) return false;
         for (double& v : y) {
             v /= sum;
             if (v <= settings.extinct_density) v = 0.0;
@@ -150,7 +160,14 @@ RayResult settle_ray(const DeterministicOde& ode, std::vector<double> start, con
     if (!normalise()) return r;
     auto stepper = odeint::make_controlled<odeint::runge_kutta_dopri5<State>>(settings.integration_abs_tolerance,
                                                                               settings.integration_rel_tolerance);
-    auto system = [&ode](const State& x, State& dxdt, double t) { ode(x, dxdt, t); };
+    // The right-hand side sees the state cut at 0: an intermediate stage may overshoot below
+    // 0, where the model means nothing (and tau / n blows up as n passes 0).
+    State cut;
+    auto system = [&ode, &cut](const State& x, State& dxdt, double t) {
+        cut.resize(x.size());
+        for (std::size_t c = 0; c < x.size(); ++c) cut[c] = std::max(x[c], 0.0);
+        ode(cut, dxdt, t);
+    };
     for (;;) {
         ode(y, f, 0.0);
         double total = 0.0, sum = 0.0;
