@@ -67,8 +67,11 @@ int main(int argc, char** argv) {
 
     RenderOptions render;
     auto* render_cmd = app.add_subcommand("render", "Draw the frames of a finished run from its fields.h5 (no display needed)");
-    render_cmd->add_option("run_dir", render.run_dir, "Output directory of 'tessera run'")->required();
+    render_cmd->add_option("run_dir", render.run_dir, "Output directory of 'tessera run' (or 'tessera predict --model ode')")->required();
     render_cmd->add_option("--out", render.out, "Directory for frame_NNNNNN.png")->required();
+    render_cmd->add_option("--fields", render.fields,
+                           "Fields file in RUN_DIR to draw: fields.h5 (the run, default) or ode_fields.h5 (the "
+                           "deterministic model of 'tessera predict --model ode')");
     render_cmd->add_option("--view", render.view, "What to show: trait, dormant, transfer, exponent, habitat, stress");
     render_cmd->add_option("--scale", render.scale, "Pixels per patch (default: output.frame_scale)")->check(CLI::PositiveNumber);
     render_cmd->add_option("--video", render.video, "Also make a video with ffmpeg (e.g. run.mp4)");
