@@ -8,7 +8,8 @@
 #include <string>
 
 #include "core/deterministic_ode.hpp"
-#include "core/engine.hpp"
+#include "core/engine.hpp"  // series_output, fields_output
+#include "core/inoculum_cells.hpp"
 #include "core/habitat_timeline.hpp"
 #include "core/rate_table.hpp"
 
@@ -34,12 +35,13 @@ void CountModel::run(const std::function<void(const CountState&)>& observe) cons
     using State = std::vector<double>;
     namespace odeint = boost::numeric::odeint;
 
-    // The run's own starting state and completed scenario (default habitat, map).
-    const Engine start(scenario_);
-    const Scenario& s = start.scenario();
+    // The scenario completed as a run completes it (core/engine.cpp: default habitat, map).
+    Scenario s = scenario_;
+    if (s.habitats.empty()) s.habitats.push_back(Habitat{});
+    const std::size_t P = static_cast<std::size_t>(s.width) * s.height;
+    if (s.habitat_of_patch.size() != P) s.habitat_of_patch.assign(P, 0);
     const RateTable rates(grid_, s.rates, s.K);
     const HabitatTimeline timeline(s);
-    const std::size_t P = start.lattice().patches();
     const int T = grid_.size();
     const auto patch_conditions = [&](double t) {
         const std::vector<PatchConditions> classes = timeline.at(t);
@@ -48,13 +50,13 @@ void CountModel::run(const std::function<void(const CountState&)>& observe) cons
         return where;
     };
     DeterministicOde ode(s, grid_, rates, patch_conditions(0.0), MutationTerm::source);
-    State y(ode.size());
-    for (std::size_t p = 0; p < P; ++p) {
-        for (int i = 0; i < T; ++i) {
-            y[ode.active_index(p, i)] = static_cast<double>(start.lattice().active(p)[i]) / s.K;
-            y[ode.dormant_index(p, i)] = static_cast<double>(start.lattice().dormant(p)[i]) / s.K;
-        }
-    }
+    // The run's inoculum, rounded to whole cells as a run rounds it (in real numbers, so that
+    // any K works).
+    State y(ode.size(), 0.0);
+    for_each_inoculum_cell(s, grid_, timeline.at(0.0), [&](std::size_t p, int i, double active, double dormant) {
+        y[ode.active_index(p, i)] += std::round(active) / s.K;
+        y[ode.dormant_index(p, i)] += std::round(dormant) / s.K;
+    });
     evaluations_ = 0;
     const auto system = [&](const State& x, State& dxdt, double t) {
         ++evaluations_;

@@ -52,7 +52,7 @@ public:
 
     const TraitGrid& traits() const { return grid_; }
 
-    // Integrates from t = 0 (the run's inoculum, rounded as a run rounds it) to run.until and
+    // Integrates from t = 0 (the inoculum, rounded to whole cells as a run rounds it) to run.until and
     // hands the state to `observe` at every output time, in time order. Throws
     // std::runtime_error naming the time when the integration fails (a count turns non-finite
     // or the step size collapses).
