@@ -90,9 +90,11 @@ void DeterministicOde::local(const double* a, const double* z, const PatchCondit
     // donor's trait, shared over level l's column in proportion to a_i; transfer_only: to
     // (x_j, l).
     const double factor = rates_.transfer / (rates_.transfer_form == TransferForm::frequency ? n : c.capacity);
+    // A density the integrator has carried a little below 0 keeps its loss term, which pulls
+    // it back: skipping it would leave such a recipient growing at b - d - C n, away from 0.
     w.won.assign(static_cast<std::size_t>(ny), 0.0);
     for (int j = 0; j < T_; ++j) {
-        if (!(a[j] > 0)) continue;
+        if (a[j] == 0) continue;
         for (int l = grid_.y_level(j) + 1; l < ny; ++l) {
             const double flow = factor * a[j] * w.level[l];
             da[j] -= flow;
@@ -104,7 +106,7 @@ void DeterministicOde::local(const double* a, const double* z, const PatchCondit
         }
     }
     for (int l = 0; l < ny; ++l) {
-        if (!(w.won[l] > 0)) continue;
+        if (w.won[l] == 0 || w.level[l] == 0) continue;
         for (int xl = 0; xl < grid_.x_levels(); ++xl) {
             const int i = grid_.index(xl, l);
             da[i] += w.won[l] * a[i] / w.level[l];
@@ -128,10 +130,11 @@ void DeterministicOde::migration(const std::vector<double>& y, std::size_t p, do
     int leaving = 0;
     for (int dir = 0; dir < dirs; ++dir) leaving += passes(p, dir) ? 1 : 0;
     const double* own = y.data() + p * block;
+    const auto clip = [](double v) { return std::max(0.0, v); };  // as in patch_derivative
     for (int comp = 0; comp < 2; ++comp) {
         const double rate = (comp == 0 ? migration_ : migration_dormant_) * where_[p].permeability / dirs;
         if (!(rate > 0) || leaving == 0) continue;
-        for (int i = 0; i < T_; ++i) dydt_p[comp * T_ + i] -= leaving * rate * own[comp * T_ + i];
+        for (int i = 0; i < T_; ++i) dydt_p[comp * T_ + i] -= leaving * rate * clip(own[comp * T_ + i]);
     }
     for (std::size_t k = inflow_start_[p]; k < inflow_start_[p + 1]; ++k) {
         const std::size_t q = inflow_[k].from;
@@ -140,7 +143,7 @@ void DeterministicOde::migration(const std::vector<double>& y, std::size_t p, do
         for (int comp = 0; comp < 2; ++comp) {
             const double rate = (comp == 0 ? migration_ : migration_dormant_) * where_[q].permeability / dirs;
             if (!(rate > 0)) continue;
-            for (int i = 0; i < T_; ++i) dydt_p[comp * T_ + i] += rate * theirs[comp * T_ + i];
+            for (int i = 0; i < T_; ++i) dydt_p[comp * T_ + i] += rate * clip(theirs[comp * T_ + i]);
         }
     }
 }
@@ -151,7 +154,15 @@ void DeterministicOde::patch_derivative(const std::vector<double>& y, std::size_
     std::fill(d, d + 2 * T_, 0.0);
     const PatchConditions& c = where_[p];
     if (!(c.capacity > 0)) return;  // a wall holds nothing
-    local(y.data() + active_index(p, 0), y.data() + dormant_index(p, 0), c, d, d + T_, w);
+    // Rates are taken at the densities clipped at 0. The integrator may carry a density that
+    // is truly 0 a little below it; taken as it is, such a value can grow away from 0 (a
+    // negative recipient at the top of its level gains from its own birth rate, and a level
+    // whose sum nearly cancels divides a whole-copy gain by almost 0). Clipped, it only
+    // receives, which brings it back; for every non-negative state nothing changes.
+    w.clipped.resize(2 * static_cast<std::size_t>(T_));
+    const double* own = y.data() + active_index(p, 0);
+    for (int k = 0; k < 2 * T_; ++k) w.clipped[k] = std::max(0.0, own[k]);
+    local(w.clipped.data(), w.clipped.data() + T_, c, d, d + T_, w);
     if (migrates_) migration(y, p, d);
 }
 

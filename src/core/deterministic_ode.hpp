@@ -63,6 +63,7 @@ public:
 private:
     struct Work {
         std::vector<double> level, won;  // active density per transfer level; whole-copy gains
+        std::vector<double> clipped;     // the patch's densities, clipped at 0
     };
     struct Inflow {
         std::uint32_t from;  // source patch
