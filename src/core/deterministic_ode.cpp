@@ -50,11 +50,45 @@ DeterministicOde::DeterministicOde(const Scenario& scenario, const TraitGrid& gr
         inflow_start_[p + 1] = inflow_start_[p] + in[p].size();
         inflow_.insert(inflow_.end(), in[p].begin(), in[p].end());
     }
+    for (int i = 0; i < T_; ++i) {
+        y_of_.push_back(grid.y_level(i));
+        x_of_.push_back(grid.x_level(i));
+    }
+    refresh_migration();
 }
 
 void DeterministicOde::set_conditions(std::vector<PatchConditions> where) {
     if (where.size() != where_.size()) throw std::invalid_argument("DeterministicOde::set_conditions: wrong number of patches");
     where_ = std::move(where);
+    refresh_migration();
+}
+
+// A jump from `from` in `dir` passes unless it goes towards a wall or off a reflecting or
+// periodic-less edge (off an absorbing edge it passes and is lost).
+void DeterministicOde::refresh_migration() {
+    const std::size_t P = where_.size();
+    out_rate_.assign(2 * P, 0.0);
+    send_rate_.assign(2 * P, 0.0);
+    if (!migrates_) return;
+    const int dirs = neighbourhood_.size();
+    for (std::size_t p = 0; p < P; ++p) {
+        if (!(where_[p].capacity > 0)) continue;  // a wall holds and sends nothing
+        const int col = static_cast<int>(p % static_cast<std::size_t>(width_));
+        const int row = static_cast<int>(p / static_cast<std::size_t>(width_));
+        int leaving = 0;
+        for (int dir = 0; dir < dirs; ++dir) {
+            const auto to = neighbourhood_.step(col, row, dir);
+            const bool passes = to.kind == Neighbourhood::Target::off_edge
+                                    ? boundary_ == Boundary::absorbing
+                                    : where_[static_cast<std::size_t>(to.patch)].capacity > 0;
+            leaving += passes ? 1 : 0;
+        }
+        for (int comp = 0; comp < 2; ++comp) {
+            const double rate = (comp == 0 ? migration_ : migration_dormant_) * where_[p].permeability / dirs;
+            send_rate_[2 * p + comp] = rate;
+            out_rate_[2 * p + comp] = leaving * rate;
+        }
+    }
 }
 
 // One patch's local terms of model.md section 5:
@@ -69,7 +103,7 @@ void DeterministicOde::local(const double* a, const double* z, const PatchCondit
     for (int i = 0; i < T_; ++i) {
         n += a[i];
         zn += z[i];
-        w.level[grid_.y_level(i)] += a[i];
+        w.level[y_of_[i]] += a[i];
     }
     const double crowd = (rates_.competition_counts_dormant ? n + zn : n) / c.capacity;
     const double resus = rates_.resuscitation * c.resuscitation;
@@ -95,13 +129,13 @@ void DeterministicOde::local(const double* a, const double* z, const PatchCondit
     w.won.assign(static_cast<std::size_t>(ny), 0.0);
     for (int j = 0; j < T_; ++j) {
         if (a[j] == 0) continue;
-        for (int l = grid_.y_level(j) + 1; l < ny; ++l) {
+        for (int l = y_of_[j] + 1; l < ny; ++l) {
             const double flow = factor * a[j] * w.level[l];
             da[j] -= flow;
             if (rates_.transfer_copies == TransferCopies::whole) {
                 w.won[l] += flow;
             } else {
-                da[grid_.index(grid_.x_level(j), l)] += flow;
+                da[x_of_[j] * ny + l] += flow;
             }
         }
     }
@@ -114,37 +148,35 @@ void DeterministicOde::local(const double* a, const double* z, const PatchCondit
     }
 }
 
+// What patch p sends towards one neighbour: m * permeability / |neighbourhood| times its
+// densities clipped at 0 (as in patch_derivative).
+void DeterministicOde::fill_sent(const std::vector<double>& y, std::size_t p) const {
+    const std::size_t block = 2 * static_cast<std::size_t>(T_);
+    for (int comp = 0; comp < 2; ++comp) {
+        const double rate = send_rate_[2 * p + comp];
+        const double* own = y.data() + p * block + comp * T_;
+        double* out = sent_.data() + p * block + comp * T_;
+        for (int i = 0; i < T_; ++i) out[i] = rate * std::max(0.0, own[i]);
+    }
+}
+
 // Migration of patch p, pulled: m * permeability * y / |neighbourhood| leaves towards each
 // neighbour (a flow towards a wall or off a reflecting edge stays home, off an absorbing
-// edge it is lost), and what each neighbour sends towards p arrives.
-void DeterministicOde::migration(const std::vector<double>& y, std::size_t p, double* dydt_p) const {
-    const int dirs = neighbourhood_.size();
+// edge it is lost), and what each neighbour sends towards p arrives. Rates from
+// refresh_migration, what every patch sends from fill_sent.
+void DeterministicOde::migration(const std::vector<double>&, std::size_t p, double* dydt_p) const {
     const std::size_t block = 2 * static_cast<std::size_t>(T_);
-    const auto passes = [&](std::size_t from, int dir) {
-        const int col = static_cast<int>(from % static_cast<std::size_t>(width_));
-        const int row = static_cast<int>(from / static_cast<std::size_t>(width_));
-        const auto to = neighbourhood_.step(col, row, dir);
-        if (to.kind == Neighbourhood::Target::off_edge) return boundary_ == Boundary::absorbing;
-        return where_[static_cast<std::size_t>(to.patch)].capacity > 0;
-    };
-    int leaving = 0;
-    for (int dir = 0; dir < dirs; ++dir) leaving += passes(p, dir) ? 1 : 0;
-    const double* own = y.data() + p * block;
-    const auto clip = [](double v) { return std::max(0.0, v); };  // as in patch_derivative
+    const std::size_t size = block;
+    const double* own = sent_.data() + p * block;
     for (int comp = 0; comp < 2; ++comp) {
-        const double rate = (comp == 0 ? migration_ : migration_dormant_) * where_[p].permeability / dirs;
-        if (!(rate > 0) || leaving == 0) continue;
-        for (int i = 0; i < T_; ++i) dydt_p[comp * T_ + i] -= leaving * rate * clip(own[comp * T_ + i]);
+        const double rate = send_rate_[2 * p + comp];
+        if (!(rate > 0)) continue;
+        const double leaving = out_rate_[2 * p + comp] / rate;  // directions that pass
+        for (int i = comp * T_; i < (comp + 1) * T_; ++i) dydt_p[i] -= leaving * own[i];
     }
     for (std::size_t k = inflow_start_[p]; k < inflow_start_[p + 1]; ++k) {
-        const std::size_t q = inflow_[k].from;
-        if (!(where_[q].capacity > 0)) continue;  // a wall sends nothing
-        const double* theirs = y.data() + q * block;
-        for (int comp = 0; comp < 2; ++comp) {
-            const double rate = (comp == 0 ? migration_ : migration_dormant_) * where_[q].permeability / dirs;
-            if (!(rate > 0)) continue;
-            for (int i = 0; i < T_; ++i) dydt_p[comp * T_ + i] += rate * clip(theirs[comp * T_ + i]);
-        }
+        const double* theirs = sent_.data() + static_cast<std::size_t>(inflow_[k].from) * block;
+        for (std::size_t i = 0; i < size; ++i) dydt_p[i] += theirs[i];
     }
 }
 
@@ -169,14 +201,24 @@ void DeterministicOde::patch_derivative(const std::vector<double>& y, std::size_
 void DeterministicOde::operator()(const std::vector<double>& y, std::vector<double>& dydt, double) const {
     dydt.resize(y.size());
     const std::size_t P = where_.size();
+    if (migrates_) sent_.resize(y.size());
     if (P < parallel_min_patches) {
         Work w;
+        for (std::size_t p = 0; migrates_ && p < P; ++p) fill_sent(y, p);
         for (std::size_t p = 0; p < P; ++p) patch_derivative(y, p, dydt, w);
         return;
     }
-    // Blocks of patches, one work space each; every patch is still computed alone.
+    // Blocks of patches, one work space each; every patch is still computed alone. First
+    // what every patch sends, then each patch's derivative (its own terms and what its
+    // neighbours sent, summed in a fixed order).
     constexpr std::size_t block = 64;
     const std::size_t blocks = (P + block - 1) / block;
+    if (migrates_) {
+        parallel_for(std::size_t{0}, blocks, [&](std::size_t b) {
+            const std::size_t end = std::min(P, (b + 1) * block);
+            for (std::size_t p = b * block; p < end; ++p) fill_sent(y, p);
+        });
+    }
     parallel_for(std::size_t{0}, blocks, [&](std::size_t b) {
         Work w;
         const std::size_t end = std::min(P, (b + 1) * block);

@@ -93,6 +93,16 @@ private:
     // in source-patch then direction order ([patch] offsets into inflow_).
     std::vector<std::size_t> inflow_start_;
     std::vector<Inflow> inflow_;
+    // From the current conditions (refresh_migration): per patch and compartment, the rate
+    // each cell leaves at (over every direction that passes) and the rate it sends towards
+    // one neighbour (0 from a wall).
+    void refresh_migration();
+    std::vector<double> out_rate_, send_rate_;  // [patch][active, dormant]
+    // Work space of one derivative: what each patch sends towards one neighbour, [patch][a, z]
+    // as the state (so one object takes one derivative at a time).
+    mutable std::vector<double> sent_;
+    void fill_sent(const std::vector<double>& y, std::size_t p) const;
+    std::vector<int> y_of_, x_of_;              // level of each trait on each axis
 };
 
 }  // namespace tessera

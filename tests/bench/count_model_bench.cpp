@@ -6,7 +6,7 @@
 // Prints wall time, derivative evaluations and steps for 1 and 2 threads, and checks that
 // both gave the same bits. Target: under 30 s on 2 cores.
 //
-//   build/tests/bench/bench_count_model [threads...]     (default: 1 2)
+//   build/tests/bench/bench_count_model [--rtol R] [threads...]     (default: 1 2)
 #include <tbb/global_control.h>
 
 #include <chrono>
@@ -66,13 +66,21 @@ Scenario lattice() {
 
 int main(int argc, char** argv) {
     std::vector<int> threads;
-    for (int k = 1; k < argc; ++k) threads.push_back(std::atoi(argv[k]));
+    CountModelSettings settings;
+    for (int k = 1; k < argc; ++k) {
+        const std::string a = argv[k];
+        if (a == "--rtol" && k + 1 < argc) {
+            settings.relative_tolerance = std::atof(argv[++k]);
+        } else {
+            threads.push_back(std::atoi(argv[k]));
+        }
+    }
     if (threads.empty()) threads = {1, 2};
     const Scenario s = lattice();
     std::vector<double> first;
     for (int n : threads) {
         tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(n));
-        const CountModel model(s);
+        const CountModel model(s, settings);
         std::string rows;
         std::size_t snapshots = 0;
         std::vector<double> final_active;
