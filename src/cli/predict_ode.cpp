@@ -52,8 +52,10 @@ void print_summary(const Scenario& s, const TraitGrid& traits, const CountState&
                      [&](int a, int b) { return active[a] + dormant[a] > active[b] + dormant[b]; });
     const double log_K = std::log(s.K), habitable = habitable_patches(s, -1);
     std::cout << "deterministic model in counts, K = " << number(s.K) << ", " << s.width << " x " << s.height
-              << " patches, " << T << " traits, mutation as a source (mu = K^-" << number(s.rates.mutation_exponent)
-              << "): " << rows << " output times, " << snapshots << " field snapshots, " << number(seconds, "%.2f")
+              << " lattice, " << T << " traits, "
+              << (std::isinf(s.rates.mutation_exponent) ? std::string("no mutation")
+                                                        : "mutation as a source (mu = K^-" + number(s.rates.mutation_exponent) + ")")
+              << ": " << rows << " output times, " << snapshots << " field snapshots, " << number(seconds, "%.2f")
               << " s\n";
     std::cout << "at t = " << number(last.t) << " (t / ln K = " << number(last.t_logK)
               << "), lattice totals, leading traits:\n";
