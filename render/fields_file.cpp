@@ -2,7 +2,10 @@
 
 #include <hdf5.h>
 
+#include <algorithm>
+#include <cmath>
 #include <stdexcept>
+#include <utility>
 #include <vector>
 
 #include "core/habitat_timeline.hpp"
@@ -48,6 +51,9 @@ FieldsFile::FieldsFile(const std::string& path, const Scenario& scenario) : path
     hid_t active = H5Dopen2(file_, "active", H5P_DEFAULT);
     if (active < 0) throw std::runtime_error(path + ": no dataset /active");
     const std::vector<hsize_t> dims = dims_of(active);
+    const hid_t type = H5Dget_type(active);
+    real_counts_ = H5Tget_class(type) == H5T_FLOAT;
+    H5Tclose(type);
     H5Dclose(active);
     const TraitGrid grid(scenario.dormancy_axis, scenario.transfer_axis);
     if (dims.size() != 4 || dims[1] != static_cast<hsize_t>(scenario.height) ||
@@ -82,6 +88,18 @@ FieldSnapshot FieldsFile::read(std::uint64_t index) const {
     read_item(file_, "t_logK", index, H5T_NATIVE_DOUBLE, &t_logK, path_);
     FieldSnapshot s = make_snapshot(scenario_, t);
     s.t_logK = t_logK;
+    if (real_counts_) {
+        // The deterministic model's counts: the nearest whole cell, within what a patch holds.
+        std::vector<double> counts(s.active.size());
+        for (auto [name, into] : {std::pair{"active", &s.active}, std::pair{"dormant", &s.dormant}}) {
+            read_item(file_, name, index, H5T_NATIVE_DOUBLE, counts.data(), path_);
+            for (std::size_t k = 0; k < counts.size(); ++k) {
+                const double c = std::isfinite(counts[k]) ? std::clamp(counts[k], 0.0, 4.0e18) : 0.0;
+                (*into)[k] = static_cast<std::int64_t>(std::llround(c));
+            }
+        }
+        return s;
+    }
     // Counts are stored as uint64 and are far below 2^63, so int64 reads them exactly.
     read_item(file_, "active", index, H5T_NATIVE_INT64, s.active.data(), path_);
     read_item(file_, "dormant", index, H5T_NATIVE_INT64, s.dormant.data(), path_);

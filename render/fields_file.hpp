@@ -1,5 +1,7 @@
 // Reading fields.h5 back (the layout of src/io/fields_writer.hpp) into FieldSnapshots, for
-// `tessera render`: frames from a finished run, no display and no simulation needed.
+// `tessera render`: frames from a finished run, no display and no simulation needed. Also
+// reads ode_fields.h5, whose counts are float64 (the deterministic model in counts): they
+// are rounded to the nearest whole cell for drawing.
 #pragma once
 
 #include <cstdint>
@@ -28,6 +30,7 @@ private:
     Scenario scenario_;
     std::int64_t file_ = -1;  // hid_t
     std::uint64_t snapshots_ = 0;
+    bool real_counts_ = false;  // /active and /dormant are float64
 };
 
 }  // namespace tessera

@@ -190,7 +190,9 @@ TEST_CASE("series sum a lattice of full patches past 2^63 without wrapping") {
     append_series_rows(e, series);
     append_habitat_series_rows(e, habitats);
     CHECK_THAT(series, Contains("0,0,0,0,0,12000000000000000000,8000000000000000000,"));
-    CHECK_THAT(habitats, Contains(",0,0,12000000000000000000,8000000000000000000\n"));
+    // The last column, exponent_per_patch, divides the total by P = 4 patches of capacity 1:
+    // log(1 + 5e18) / log(1e18).
+    CHECK_THAT(habitats, Contains(",0,0,12000000000000000000,8000000000000000000,1.0388316669075566\n"));
 }
 
 TEST_CASE("tessera view's worker stops at the limit and reports it, without crashing") {

@@ -1,6 +1,7 @@
-// tessera render RUN_DIR --out DIR [--view NAME] [--video FILE.mp4]: the frames of a
-// finished run, drawn from its fields.h5 and scenario.resolved.toml with the same
-// rasteriser as the recorder and the window. Needs no display.
+// tessera render RUN_DIR --out DIR [--fields FILE] [--view NAME] [--video FILE.mp4]: the
+// frames of a finished run, drawn from its fields.h5 (or, with --fields ode_fields.h5, the
+// deterministic model's written by `tessera predict --model ode`) and scenario.resolved.toml
+// with the same rasteriser as the recorder and the window. Needs no display.
 #include <cstdio>
 #include <cstdlib>
 #include <filesystem>
@@ -46,14 +47,17 @@ int render_command(const RenderOptions& o) {
         return 2;
     }
     const fs::path dir(o.run_dir);
-    const fs::path resolved = dir / "scenario.resolved.toml", fields = dir / "fields.h5";
+    const fs::path resolved = dir / "scenario.resolved.toml", fields = dir / o.fields;
     if (!fs::exists(resolved)) {
         std::cerr << "error: " << resolved.string() << ": not found; RUN_DIR must be an output directory of 'tessera run'\n";
         return 2;
     }
     if (!fs::exists(fields)) {
         std::cerr << "error: " << fields.string()
-                  << ": not found; the run saved no fields (output.fields_every = 0), so there is nothing to draw\n";
+                  << (o.fields == "fields.h5"
+                          ? ": not found; the run saved no fields (output.fields_every = 0), so there is nothing to draw\n"
+                          : ": not found; --fields names a fields file in RUN_DIR (fields.h5 of a run, ode_fields.h5 "
+                            "of 'tessera predict --model ode')\n");
         return 2;
     }
     const auto loaded = load_or_report(resolved.string());

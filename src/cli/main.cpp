@@ -63,7 +63,7 @@ int main(int argc, char** argv) {
         "sweep", "Run a scenario over a grid of parameter values; classify every point into regimes");
     sweep_cmd->footer(
         "Each point ends in a regime: extinct, resident (one trait leads), coexistence (several lead)\n"
-        "or cycling (the leaders take turns; docs/model.md section 5).\n"
+        "or cycling (the leaders take turns; docs/model.md section 6).\n"
         "Each --vary names a scenario key (as --set does) and its values:\n"
         "  --vary rates.dormancy_probability=0:0.25:11     11 values from 0 to 0.25, ends included\n"
         "  --vary scale.K=log:1e3:1e6:4                    4 values evenly spaced in log: 1e3 1e4 1e5 1e6\n"
@@ -113,8 +113,11 @@ int main(int argc, char** argv) {
 
     RenderOptions render;
     auto* render_cmd = app.add_subcommand("render", "Draw the frames of a finished run from its fields.h5 (no display needed)");
-    render_cmd->add_option("run_dir", render.run_dir, "Output directory of 'tessera run'")->required();
+    render_cmd->add_option("run_dir", render.run_dir, "Output directory of 'tessera run' (or 'tessera predict --model ode')")->required();
     render_cmd->add_option("--out", render.out, "Directory for frame_NNNNNN.png")->required();
+    render_cmd->add_option("--fields", render.fields,
+                           "Fields file in RUN_DIR to draw: fields.h5 (the run, default) or ode_fields.h5 (the "
+                           "deterministic model of 'tessera predict --model ode')");
     render_cmd->add_option("--view", render.view, "What to show: trait, dormant, transfer, exponent, habitat, stress");
     render_cmd->add_option("--scale", render.scale, "Pixels per patch (default: output.frame_scale)")->check(CLI::PositiveNumber);
     render_cmd->add_option("--video", render.video, "Also make a video with ffmpeg (e.g. run.mp4)");

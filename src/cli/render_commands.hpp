@@ -12,6 +12,7 @@ namespace tessera::cli {
 struct RenderOptions {
     std::string run_dir;
     std::string out;
+    std::string fields = "fields.h5";  // in run_dir (or a path): ode_fields.h5 draws the deterministic model
     std::string view = "trait";
     std::string video;          // "" = none; otherwise an .mp4 made with ffmpeg
     std::optional<int> scale;   // pixels per patch; default output.frame_scale of the run

@@ -12,6 +12,7 @@
 #include "core/count_limit.hpp"
 #include "core/exact_patch.hpp"
 #include "core/exact_spatial.hpp"
+#include "core/inoculum_cells.hpp"
 #include "core/leap_patch.hpp"
 #include "core/random_draws.hpp"
 #include "core/rng.hpp"
@@ -87,32 +88,10 @@ double Engine::time_logK() const { return time_ / std::log(scenario_.K); }
 double Engine::until() const { return scenario_.to_plain(scenario_.until); }
 
 void Engine::inoculate() {
-    for (const Inoculum& in : scenario_.inocula) {
-        const auto trait = traits_.find(in.dormancy, in.transfer);
-        if (!trait) continue;  // the loader rejects traits off the grid
-        for (int row = 0; row < lattice_.height(); ++row) {
-            for (int col = 0; col < lattice_.width(); ++col) {
-                const std::size_t p = lattice_.patch_at(col, row);
-                const int cls = scenario_.habitat_of_patch[p];
-                bool here = false;
-                switch (in.where) {
-                    case Inoculum::Where::all: here = true; break;
-                    case Inoculum::Where::habitat: here = scenario_.habitats[cls].name == in.habitat; break;
-                    case Inoculum::Where::patch: here = col == in.x0 && row == in.y0; break;
-                    case Inoculum::Where::rect:
-                        here = col >= std::min(in.x0, in.x1) && col <= std::max(in.x0, in.x1) &&
-                               row >= std::min(in.y0, in.y1) && row <= std::max(in.y0, in.y1);
-                        break;
-                }
-                const double capacity = class_conditions_[cls].capacity;
-                if (!here || capacity <= 0) continue;
-                const double active =
-                    in.exponent ? std::pow(scenario_.K * capacity, *in.exponent) : in.active.value_or(0.0);
-                lattice_.active(p)[*trait] += static_cast<std::int64_t>(std::llround(active));
-                lattice_.dormant(p)[*trait] += static_cast<std::int64_t>(std::llround(in.dormant));
-            }
-        }
-    }
+    for_each_inoculum_cell(scenario_, traits_, class_conditions_, [&](std::size_t p, int trait, double active, double dormant) {
+        lattice_.active(p)[trait] += static_cast<std::int64_t>(std::llround(active));
+        lattice_.dormant(p)[trait] += static_cast<std::int64_t>(std::llround(dormant));
+    });
 }
 
 void Engine::run(Observer& observer, const std::atomic<bool>* stop, bool resumed) {

@@ -83,33 +83,40 @@ void write_dataset(hid_t file, const char* name, hid_t type, const std::vector<h
     H5Sclose(space);
 }
 
-std::vector<hsize_t> lattice_item(const Engine& e) {
-    return {static_cast<hsize_t>(e.lattice().height()), static_cast<hsize_t>(e.lattice().width()),
-            static_cast<hsize_t>(e.lattice().traits())};
+std::vector<hsize_t> lattice_item(const Scenario& s, const TraitGrid& traits) {
+    return {static_cast<hsize_t>(s.height), static_cast<hsize_t>(s.width), static_cast<hsize_t>(traits.size())};
 }
+
+std::vector<hsize_t> lattice_item(const Engine& e) { return lattice_item(e.scenario(), e.traits()); }
 
 }  // namespace
 
-FieldsWriter::FieldsWriter(const std::string& path, const Engine& engine) : path_(path) {
+FieldsWriter::FieldsWriter(const std::string& path, const Engine& engine)
+    : FieldsWriter(path, engine.scenario(), engine.traits(), engine.replicate(), FieldCounts::integer) {}
+
+FieldsWriter::FieldsWriter(const std::string& path, const Scenario& s, const TraitGrid& traits,
+                           std::uint32_t replicate, FieldCounts counts)
+    : path_(path), counts_(counts) {
     H5Eset_auto2(H5E_DEFAULT, nullptr, nullptr);  // our own messages, not HDF5's stack dump
     file_ = H5Fcreate(path.c_str(), H5F_ACC_TRUNC, H5P_DEFAULT, H5P_DEFAULT);
     if (file_ < 0) throw std::runtime_error(path + ": cannot create the HDF5 file");
 
-    const Scenario& s = engine.scenario();
-    const std::vector<hsize_t> item = lattice_item(engine);
+    const std::vector<hsize_t> item = lattice_item(s, traits);
+    item_.assign(item.begin(), item.end());
     // Chunks of whole rows, about 1 MiB each, so a reader can fetch a region cheaply.
     const hsize_t row_bytes = item[1] * item[2] * sizeof(std::uint64_t);
     const hsize_t rows = std::clamp<hsize_t>((1u << 20) / std::max<hsize_t>(row_bytes, 1), 1, item[0]);
     const std::vector<hsize_t> chunk{rows, item[1], item[2]};
     t_ = make_extendible(file_, "t", H5T_NATIVE_DOUBLE, {}, {}, false);
     t_logK_ = make_extendible(file_, "t_logK", H5T_NATIVE_DOUBLE, {}, {}, false);
-    active_ = make_extendible(file_, "active", H5T_STD_U64LE, item, chunk, true);
-    dormant_ = make_extendible(file_, "dormant", H5T_STD_U64LE, item, chunk, true);
+    // Both types are 8 bytes, so the chunks hold the same rows either way.
+    const hid_t count_type = counts == FieldCounts::integer ? H5T_STD_U64LE : H5T_IEEE_F64LE;
+    active_ = make_extendible(file_, "active", count_type, item, chunk, true);
+    dormant_ = make_extendible(file_, "dormant", count_type, item, chunk, true);
     if (t_ < 0 || t_logK_ < 0 || active_ < 0 || dormant_ < 0) {
         throw std::runtime_error(path + ": cannot create the datasets");
     }
 
-    const TraitGrid& traits = engine.traits();
     std::vector<double> table;
     for (int i = 0; i < traits.size(); ++i) {
         table.push_back(traits.dormancy(i));
@@ -131,7 +138,6 @@ FieldsWriter::FieldsWriter(const std::string& path, const Engine& engine) : path
 
     write_attribute(file_, "K", H5T_NATIVE_DOUBLE, &s.K);
     write_attribute(file_, "seed", H5T_NATIVE_UINT64, &s.seed);
-    const std::uint32_t replicate = engine.replicate();
     write_attribute(file_, "replicate", H5T_NATIVE_UINT32, &replicate);
     write_string_attribute(file_, "version", tessera::version);
     write_string_attribute(file_, "build_id", tessera::build_id);
@@ -146,19 +152,24 @@ FieldsWriter::~FieldsWriter() {
 
 void FieldsWriter::append(const Engine& engine) {
     // Counts are never negative, so their int64 bits are their uint64 value.
-    append(engine.time(), engine.time_logK(), lattice_item(engine), engine.lattice().all_active().data(),
-           engine.lattice().all_dormant().data());
+    append(engine.time(), engine.time_logK(), item_, engine.lattice().all_active().data(),
+           engine.lattice().all_dormant().data(), H5T_NATIVE_UINT64);
+}
+
+void FieldsWriter::append(double t, double t_logK, const std::vector<double>& active, const std::vector<double>& dormant) {
+    if (counts_ != FieldCounts::real) throw std::logic_error(path_ + ": real counts given to an integer fields file");
+    append(t, t_logK, item_, active.data(), dormant.data(), H5T_NATIVE_DOUBLE);
 }
 
 // The one sequence of HDF5 calls per snapshot, shared by a run and a rebuild so that both
 // give the same bytes.
 void FieldsWriter::append(double t, double t_logK, const std::vector<unsigned long long>& item, const void* active,
-                          const void* dormant) {
+                          const void* dormant, std::int64_t memtype) {
     const std::vector<hsize_t> dims(item.begin(), item.end());
     append_item(t_, snapshots_, {}, H5T_NATIVE_DOUBLE, &t);
     append_item(t_logK_, snapshots_, {}, H5T_NATIVE_DOUBLE, &t_logK);
-    append_item(active_, snapshots_, dims, H5T_NATIVE_UINT64, active);
-    append_item(dormant_, snapshots_, dims, H5T_NATIVE_UINT64, dormant);
+    append_item(active_, snapshots_, dims, memtype, active);
+    append_item(dormant_, snapshots_, dims, memtype, dormant);
     ++snapshots_;
     H5Fflush(file_, H5F_SCOPE_LOCAL);
 }
@@ -221,7 +232,7 @@ std::unique_ptr<FieldsWriter> FieldsWriter::rebuild(const std::string& path, con
                           std::to_string(snapshots) + " the checkpoint counts (the file is damaged or from another run)";
                 break;
             }
-            writer->append(t, t_logK, item_ull, active.data(), dormant.data());
+            writer->append(t, t_logK, item_ull, active.data(), dormant.data(), H5T_NATIVE_UINT64);
         }
         for (hid_t set : sets) {
             if (set >= 0) H5Dclose(set);
