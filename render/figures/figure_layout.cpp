@@ -13,11 +13,23 @@ constexpr double min_scale = 0.6, max_scale = 4.0;
 // Width of one character in em, on the generous side (see the header).
 constexpr double char_em = 0.56;
 
-int column_count(std::size_t panels) {
-    if (panels <= 3) return static_cast<int>(std::max<std::size_t>(panels, 1));
-    if (panels == 4) return 2;
-    if (panels <= 9) return 3;
-    return 4;
+// Panels read best a little wider than tall; the column count whose panels come closest.
+constexpr double panel_aspect = 1.5;
+
+int column_count(std::size_t panels, double room_w, double room_h, double gap_x, double gap_y) {
+    int best = 1;
+    double best_score = 1e300;
+    for (int c = 1; c <= static_cast<int>(panels); ++c) {
+        const int r = static_cast<int>((panels + c - 1) / c);
+        const double w = (room_w - (c - 1) * gap_x) / c, h = (room_h - (r - 1) * gap_y) / r;
+        if (w <= 0 || h <= 0) continue;
+        const double score = std::abs(std::log(w / h / panel_aspect));
+        if (score < best_score) {
+            best_score = score;
+            best = c;
+        }
+    }
+    return best;
 }
 
 // Widest tick label of a panel's y axis, in characters.
@@ -115,10 +127,10 @@ FigureLayout lay_out(const Figure& figure, int width, int height) {
 
     // The grid of panels.
     const std::size_t n = std::max<std::size_t>(figure.panels.size(), 1);
-    l.columns = column_count(n);
-    l.rows = static_cast<int>((n + l.columns - 1) / l.columns);
     const double gap_x = y_ticks_w + 0.8 * em;
     const double gap_y = x_ticks_h + 0.6 * em + panel_title_h;
+    l.columns = column_count(n, right - left, bottom - top - panel_title_h, gap_x, gap_y);
+    l.rows = static_cast<int>((n + l.columns - 1) / l.columns);
     const double cell_w = (right - left - (l.columns - 1) * gap_x) / l.columns;
     const double cell_h = (bottom - top - l.rows * panel_title_h - (l.rows - 1) * (gap_y - panel_title_h)) / l.rows;
     for (std::size_t i = 0; i < figure.panels.size(); ++i) {

@@ -200,7 +200,7 @@ private:
             }
         } else {
             // Ticks and numbers on the bottom and left edges only, pointing out of the plot.
-            pls_.box("binst", 0.0, 0, p.log_y ? "binstvl" : "binstv", 0.0, 0);
+            pls_.box("bint", 0.0, 0, p.log_y ? "bintvl" : "bintv", 0.0, 0);
             pls_.box("c", 0.0, 0, "c", 0.0, 0);
         }
         if (!p.title.empty()) {

@@ -271,7 +271,7 @@ Figure build_run_figure(const RunInputs& in, const RunFigureOptions& o) {
 
     f.legend.push_back({LegendEntry::Kind::heading, neutral, "trait (dormancy, transfer)"});
     for (int trait : shown) f.legend.push_back({LegendEntry::Kind::line, palette.colour(trait), trait_label(sc, trait)});
-    if (ensemble) f.legend.push_back({LegendEntry::Kind::band, neutral, "10-90 % of runs"});
+    if (ensemble) f.legend.push_back({LegendEntry::Kind::band, neutral, "median, 10-90 % of runs"});
     if (limit) f.legend.push_back({LegendEntry::Kind::dashed, neutral, "K \u2192 \u221e limit"});
     if (ode) f.legend.push_back({LegendEntry::Kind::dotted, neutral, "deterministic, this K"});
     if (!shading.empty()) f.legend.push_back({LegendEntry::Kind::shading, neutral, shading_text});
