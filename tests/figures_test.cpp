@@ -30,6 +30,8 @@
 #include "render/figures/regime_palette.hpp"
 #include "render/figures/run_figure.hpp"
 #include "render/trait_palette.hpp"
+#include "render/trait_plot.hpp"
+#include "render/typeface.hpp"
 
 using namespace tessera;
 namespace fs = std::filesystem;
@@ -397,4 +399,52 @@ TEST_CASE("tessera plot: bad inputs exit 2 with a message naming the file") {
     const fs::path good = fixture_run("cli_good");
     CHECK(run_tessera("plot '" + good.string() + "' --size 800x500", err) == 0);
     CHECK(fs::exists(good / "exponents.png"));
+}
+
+TEST_CASE("the live plot draws a given limit dashed in the trait's colour and marks the current time") {
+    const TraitPalette palette(2, 2);
+    LimitPrediction lp;
+    lp.knot_t_logK = {0.0, 5.0, 10.0};
+    lp.knot_exponents = {{0.5, 0, 0, 0}, {0.5, 0, 0, 0}, {0.5, 0, 0, 0}};
+    lp.stopped_at = 10.0;
+    const std::vector<TraitHistoryPoint> history = {{0.0, {0, 0, 0, 0}}, {4.0, {0, 0, 0, 0}}};
+    Typeface font;
+    auto draw = [&](const LimitPrediction* limit) {
+        sf::Image im;
+        im.create(600, 220, sf::Color::Black);
+        TraitPlotInputs in;
+        in.history = &history;
+        in.until_logK = 10.0;
+        in.limit = limit;
+        draw_trait_plot(im, font, 0, 0, 600, 220, in, palette);
+        return im;
+    };
+    const Rgb8 c0 = palette.colour(0);
+    // With the limit: the row holding trait 0's colour switches between dash and gap many
+    // times (a dash is 6 px on, 4 px off over ~550 px).
+    const sf::Image with = draw(&lp);
+    int best_row_switches = 0;
+    for (unsigned y = 0; y < with.getSize().y; ++y) {
+        int switches = 0;
+        bool prev = false;
+        for (unsigned x = 0; x < with.getSize().x; ++x) {
+            const bool on = near(with.getPixel(x, y), c0);
+            switches += on != prev;
+            prev = on;
+        }
+        best_row_switches = std::max(best_row_switches, switches);
+    }
+    CHECK(best_row_switches > 40);
+    // Without it, trait 0 (whose simulated exponent is 0, on the axis) is nowhere.
+    CHECK_FALSE(colour_anywhere(draw(nullptr), c0));
+    // The current time (t/lnK = 4 of 10): a dotted light column near 40 % of the width.
+    const sf::Image im = draw(nullptr);
+    int light_column = -1;
+    for (unsigned x = 0; x < im.getSize().x && light_column < 0; ++x) {
+        int light = 0;
+        for (unsigned y = 0; y < im.getSize().y; ++y) light += im.getPixel(x, y).r > 150 && im.getPixel(x, y).g > 150;
+        if (light > 60) light_column = static_cast<int>(x);
+    }
+    CHECK(light_column > 36 + (600 - 48) * 4 / 10 - 3);
+    CHECK(light_column < 36 + (600 - 48) * 4 / 10 + 3);
 }
