@@ -69,10 +69,12 @@ Curve curve_of(const Track& track, PlotQuantity what, const Axis& axis, Rgb8 col
     return c;
 }
 
-// Schedule intervals on the time axis, each repeat up to run.until; and a legend text.
-std::vector<Shading> schedule_shading(const Scenario& sc, const Axis& axis, std::string& legend) {
+// Schedule intervals on the time axis, each repeat up to run.until, of the schedules of
+// habitat class `habitat` (every schedule when empty); and a legend text.
+std::vector<Shading> schedule_shading(const Scenario& sc, const Axis& axis, const std::string& habitat, std::string& legend) {
     std::vector<Shading> out;
     for (const auto& s : sc.schedules) {
+        if (!habitat.empty() && s.habitat != habitat) continue;
         for (int k = 0; k < 10000; ++k) {
             const double from = s.start + k * s.every, to = s.end + k * s.every;
             if (from >= sc.until) break;
@@ -136,21 +138,30 @@ Figure build_run_figure(const RunInputs& in, const RunFigureOptions& o) {
     }
 
     // Panels: one, one per dormancy level, or one per habitat class.
+    // Walls (capacity 0) hold no cells and get no panel.
     std::vector<std::string> titles;
+    std::vector<int> habitat_panel(sc.habitats.size(), -1);
+    std::vector<std::string> panel_habitat;  // the habitat class of each panel ("" = all)
     auto panel_of = [&](int habitat, int trait) -> int {
         if (o.panels == PanelSplit::dormancy) return grid.x_level(trait);
-        if (by_habitat) return habitat;
+        if (by_habitat && habitat >= 0) return habitat_panel[static_cast<std::size_t>(habitat)];
         return 0;
     };
     if (o.panels == PanelSplit::dormancy) {
         for (int x = 0; x < grid.x_levels(); ++x) titles.push_back("dormancy x = " + number(grid.dormancy(grid.index(x, 0))));
     } else if (by_habitat) {
-        for (const auto& h : sc.habitats) titles.push_back("habitat " + h.name);
+        for (std::size_t h = 0; h < sc.habitats.size(); ++h) {
+            if (!(sc.habitats[h].capacity > 0)) continue;
+            habitat_panel[h] = static_cast<int>(titles.size());
+            titles.push_back("habitat " + sc.habitats[h].name);
+            panel_habitat.push_back(sc.habitats[h].name);
+        }
     } else {
         titles.push_back("");
     }
     Figure f;
     f.panels.resize(titles.size());
+    panel_habitat.resize(titles.size());
     for (std::size_t p = 0; p < titles.size(); ++p) f.panels[p].title = titles[p];
 
     // Solid lines: the ensemble's medians with bands, or the replicates' own series.
@@ -183,7 +194,8 @@ Figure build_run_figure(const RunInputs& in, const RunFigureOptions& o) {
     const int lines = ensemble ? std::min(o.replicate_lines, replicates) : std::max(1, std::min(o.replicate_lines, replicates));
     for (int rep = 0; rep < lines; ++rep) {
         for (const auto& [key, track] : tracks(counts, rep)) {
-            if (!shown.count(key.second) || (by_habitat && key.first < 0)) continue;
+            if (!shown.count(key.second) || (by_habitat && (key.first < 0 || habitat_panel[static_cast<std::size_t>(key.first)] < 0)))
+                continue;
             const bool thin = ensemble || lines > 1;
             f.panels[static_cast<std::size_t>(panel_of(key.first, key.second))].curves.push_back(
                 curve_of(track, what, axis, palette.colour(key.second), LineStyle::solid, thin ? replicate_width : data_width));
@@ -223,7 +235,7 @@ Figure build_run_figure(const RunInputs& in, const RunFigureOptions& o) {
 
     // Axes: time from 0 to run.until (or the last time written, if later); y from the data.
     std::string shading_text;
-    const std::vector<Shading> shading = schedule_shading(sc, axis, shading_text);
+    const bool shaded = !schedule_shading(sc, axis, "", shading_text).empty();
     double x_max = axis.of_unit(sc.until), y_max = 0.0;
     for (const auto& p : f.panels) {
         for (const auto& c : p.curves)
@@ -234,10 +246,13 @@ Figure build_run_figure(const RunInputs& in, const RunFigureOptions& o) {
         for (const auto& b : p.bands)
             for (double v : b.high) y_max = std::max(y_max, v);
     }
-    for (auto& p : f.panels) {
+    for (std::size_t i = 0; i < f.panels.size(); ++i) {
+        Panel& p = f.panels[i];
         p.x_min = 0.0;
         p.x_max = x_max > 0 ? x_max : 1.0;
-        p.shading = shading;
+        // Per habitat: only that class's schedules.
+        std::string ignored;
+        p.shading = schedule_shading(sc, axis, panel_habitat[i], ignored);
         if (what == PlotQuantity::dormant) {
             p.y_max = 1.0;
         } else if (what == PlotQuantity::counts) {
@@ -274,7 +289,7 @@ Figure build_run_figure(const RunInputs& in, const RunFigureOptions& o) {
     if (ensemble) f.legend.push_back({LegendEntry::Kind::band, neutral, "median, 10-90 % of runs"});
     if (limit) f.legend.push_back({LegendEntry::Kind::dashed, neutral, "K \u2192 \u221e limit"});
     if (ode) f.legend.push_back({LegendEntry::Kind::dotted, neutral, "deterministic, this K"});
-    if (!shading.empty()) f.legend.push_back({LegendEntry::Kind::shading, neutral, shading_text});
+    if (shaded) f.legend.push_back({LegendEntry::Kind::shading, neutral, shading_text});
     return f;
 }
 
