@@ -38,12 +38,16 @@ struct Axis {
     }
 };
 
+// A dormant fraction is drawn only where the trait has at least this many cells: the
+// fraction of one or two cells jumps between 0 and 1 and hides the traits that matter.
+constexpr double dormant_fraction_min_cells = 10.0;
+
 // The plotted value of a count row for the quantity.
 double value_of(PlotQuantity what, const SeriesRow& r) {
     const double n = r.active + r.dormant;
     switch (what) {
         case PlotQuantity::counts: return std::log10(1.0 + n);
-        case PlotQuantity::dormant: return n > 0 ? r.dormant / n : std::nan("");
+        case PlotQuantity::dormant: return n >= dormant_fraction_min_cells ? r.dormant / n : std::nan("");
         default: return r.exponent;
     }
 }
@@ -274,8 +278,14 @@ Figure build_run_figure(const RunInputs& in, const RunFigureOptions& o) {
                                          : "time t (model time units)";
     const bool per_patch = by_habitat || counts.per_patch;
     switch (what) {
-        case PlotQuantity::counts: f.y_label = by_habitat ? "cells in the habitat (active + dormant)" : "cells (active + dormant)"; break;
-        case PlotQuantity::dormant: f.y_label = "dormant fraction D / (A + D)"; break;
+        case PlotQuantity::counts:
+            f.y_label = by_habitat ? "1 + cells in the habitat (log scale)" : "1 + cells (log scale)";
+            f.subtitle += "; cells = active + dormant";
+            break;
+        case PlotQuantity::dormant:
+            f.y_label = "dormant fraction D / (A + D)";
+            f.subtitle += "; drawn where a trait has >= " + number(dormant_fraction_min_cells) + " cells";
+            break;
         default:
             f.y_label = one_patch ? "exponent log(1 + N) / ln K"
                         : per_patch ? "exponent per patch log(1 + N/P) / ln K"
