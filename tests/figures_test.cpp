@@ -327,7 +327,7 @@ TEST_CASE("a two-key sweep draws a heatmap per source with the leading regime an
     CHECK(r.regime == "cycling");
     CHECK(r.agree == Approx(0.75));
     CHECK(r.residents == "0:4");
-    CHECK(residents_label("0:0;0:4") == "(0, 0) + (0, 4)");
+    CHECK(residents_label("0:0;0:4") == "(0,0)+(0,4)");
     const Figure f = build_regime_figure(in);
     REQUIRE(f.panels.size() == 2);  // limit and run
     CHECK(f.panels[0].cells.size() == 4);

@@ -48,8 +48,8 @@ std::string residents_label(const std::string& residents) {
         const std::size_t end = std::min(residents.find(';', start), residents.size());
         std::string one = residents.substr(start, end - start);
         const std::size_t colon = one.find(':');
-        if (colon != std::string::npos) one = "(" + one.substr(0, colon) + ", " + one.substr(colon + 1) + ")";
-        out += (out.empty() ? "" : " + ") + one;
+        if (colon != std::string::npos) one = "(" + one.substr(0, colon) + "," + one.substr(colon + 1) + ")";
+        out += (out.empty() ? "" : "+") + one;
         start = end + 1;
     }
     return out;

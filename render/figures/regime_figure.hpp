@@ -21,7 +21,7 @@ PointRegime leading_regime(const SweepInputs& in, int point, const std::string& 
 
 Figure build_regime_figure(const SweepInputs& inputs);
 
-// "x:y;x:y" as the map writes it in a cell: "(x, y) + (x, y)".
+// "x:y;x:y" as the map writes it in a cell, compactly: "(x,y)+(x,y)".
 std::string residents_label(const std::string& residents);
 
 }  // namespace tessera
