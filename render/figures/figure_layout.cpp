@@ -111,17 +111,56 @@ FigureLayout lay_out(const Figure& figure, int width, int height) {
     double right = W - 0.8 * em;
     l.legend_row = 1.45 * em;
     if (!figure.legend.empty()) {
-        double text_w = 0.0;
-        for (const auto& e : figure.legend) text_w = std::max(text_w, text_width(e.text, l.label_em));
-        const double column_w = 2.6 * em + text_w + 0.6 * em;
-        const double room = bottom - top - 0.8 * em;
-        const int per_column = std::max(1, static_cast<int>(std::floor(room / l.legend_row)));
-        l.legend_columns = static_cast<int>((figure.legend.size() + per_column - 1) / per_column);
-        const int rows = static_cast<int>((figure.legend.size() + l.legend_columns - 1) / l.legend_columns);
+        // Entries that name one item (a trait's line, a regime's swatch) go in columns;
+        // the others (headings, notes, line styles, shading) each take a whole row above
+        // or below them, so a long one does not widen every column.
+        auto in_columns = [](const LegendEntry& e) {
+            return e.kind == LegendEntry::Kind::line || e.kind == LegendEntry::Kind::swatch;
+        };
+        const double sample_w = 2.6 * em, inner = 0.4 * em;
+        double item_w = 0.0, wide_w = 0.0;
+        std::size_t items = 0, wide = 0;
+        for (const auto& e : figure.legend) {
+            const bool heading = e.kind == LegendEntry::Kind::heading || e.kind == LegendEntry::Kind::note;
+            const double w = (heading ? 0.2 * em : sample_w) + text_width(e.text, l.label_em) + 0.6 * em;
+            if (in_columns(e)) {
+                item_w = std::max(item_w, w);
+                ++items;
+            } else {
+                wide_w = std::max(wide_w, w);
+                ++wide;
+            }
+        }
+        const double room = bottom - top - panel_title_h - 0.8 * em;
+        const int room_rows = std::max(1, static_cast<int>(std::floor(room / l.legend_row)));
+        const int item_rows = std::max(1, room_rows - static_cast<int>(wide));
+        l.legend_columns = items == 0 ? 1 : static_cast<int>((items + item_rows - 1) / item_rows);
+        const std::size_t per_column = items == 0 ? 1 : (items + l.legend_columns - 1) / l.legend_columns;
+        const double width_needed = std::max(l.legend_columns * item_w, wide_w) + inner;
         l.legend.right = right;
-        l.legend.left = right - l.legend_columns * column_w - 0.4 * em;
+        l.legend.left = right - width_needed;
         l.legend.top = top + panel_title_h;
-        l.legend.bottom = l.legend.top + rows * l.legend_row + 0.8 * em;
+        // Positions, in the entries' order: a run of column entries fills its columns
+        // before the next whole-row entry.
+        double y = l.legend.top + inner + 0.5 * l.legend_row;
+        std::size_t k = 0;
+        while (k < figure.legend.size()) {
+            if (!in_columns(figure.legend[k])) {
+                l.legend_at.push_back({l.legend.left + inner, y});
+                y += l.legend_row;
+                ++k;
+                continue;
+            }
+            std::size_t run = 0;
+            while (k + run < figure.legend.size() && in_columns(figure.legend[k + run])) ++run;
+            const std::size_t rows_here = std::min(per_column, run);
+            for (std::size_t i = 0; i < run; ++i)
+                l.legend_at.push_back({l.legend.left + inner + static_cast<double>(i / rows_here) * item_w,
+                                       y + static_cast<double>(i % rows_here) * l.legend_row});
+            y += static_cast<double>(rows_here) * l.legend_row;
+            k += run;
+        }
+        l.legend.bottom = y - 0.5 * l.legend_row + inner + 0.2 * em;
         right = l.legend.left - 1.2 * em;
     }
 

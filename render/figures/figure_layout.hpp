@@ -36,6 +36,10 @@ struct FigureLayout {
     PixelBox legend;                         // the legend's frame ("" legend: zero size)
     int legend_columns = 1;
     double legend_row = 0.0;  // height of one legend row
+    struct Point {
+        double x = 0.0, y = 0.0;
+    };
+    std::vector<Point> legend_at;  // left end and centre line of each legend entry
 
     // Pixel of data point (x, y) in panel `p` (log_y panels take y already as log10).
     double pixel_x(const Figure& f, std::size_t p, double x) const;

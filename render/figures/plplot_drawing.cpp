@@ -40,6 +40,17 @@ std::string escaped(const std::string& s) {
     return out;
 }
 
+// A round step (1, 2, 2.5 or 5 times a power of ten) giving at most `ticks` intervals over
+// `range`; 0 (PLplot's own choice) when there is room for many.
+double tick_step(double range, double ticks) {
+    if (!(range > 0) || ticks >= 8) return 0.0;
+    const double raw = range / std::max(ticks, 1.0);
+    const double ten = std::pow(10.0, std::floor(std::log10(raw)));
+    for (double m : {1.0, 2.0, 2.5, 5.0, 10.0})
+        if (m * ten >= raw) return m * ten;
+    return 10.0 * ten;
+}
+
 class Drawing {
 public:
     Drawing(const Figure& f, const FigureLayout& l, plstream& pls) : f_(f), l_(l), pls_(pls) {}
@@ -204,12 +215,17 @@ private:
                 pls_.mtex("lv", 0.6, pos, 1.0, escaped(p.y_categories[k]).c_str());
             }
         } else {
-            // Ticks and numbers on the bottom and left edges only, pointing out of the plot.
-            pls_.box("bint", 0.0, 0, p.log_y ? "bintvl" : "bintv", 0.0, 0);
+            // Ticks and numbers on the bottom and left edges only, pointing out of the plot;
+            // a low panel gets fewer numbers on its y axis so they stay apart.
+            const double y_step = p.log_y ? 0.0 : tick_step(p.y_max - p.y_min, b.height() / (2.2 * l_.em));
+            pls_.box("bint", 0.0, 0, p.log_y ? "bintvl" : "bintv", y_step, 0);
             pls_.box("c", 0.0, 0, "c", 0.0, 0);
         }
         if (!p.title.empty()) {
-            text_size(l_.label_em);
+            // Narrow panels (many of them) get a smaller title rather than overlapping ones.
+            const double room = b.width() - 0.4 * l_.em;
+            const double tw = text_width(p.title, l_.label_em);
+            text_size(tw > room ? std::max(l_.label_em * room / tw, 0.6 * l_.label_em) : l_.label_em);
             colour(ink);
             pls_.mtex("t", 0.9, 0.5, 0.5, escaped(p.title).c_str());
         }
@@ -223,13 +239,10 @@ private:
             colour(dark_area);
             page_rect(box.left, box.top, box.right, box.bottom);
         }
-        const double em = l_.em, row = l_.legend_row;
-        const double column_w = (box.width() - 0.4 * em) / l_.legend_columns;
-        const std::size_t per_column = (f_.legend.size() + l_.legend_columns - 1) / l_.legend_columns;
-        for (std::size_t k = 0; k < f_.legend.size(); ++k) {
+        const double em = l_.em;
+        for (std::size_t k = 0; k < f_.legend.size() && k < l_.legend_at.size(); ++k) {
             const LegendEntry& e = f_.legend[k];
-            const double x = box.left + 0.4 * em + static_cast<double>(k / per_column) * column_w;
-            const double y = box.top + 0.4 * em + (static_cast<double>(k % per_column) + 0.5) * row;
+            const double x = l_.legend_at[k].x, y = l_.legend_at[k].y;
             const double x0 = x + 0.2 * em, x1 = x + 2.2 * em;
             Rgb8 text = dark ? dark_text : ink;
             switch (e.kind) {
