@@ -337,16 +337,6 @@ TEST_CASE("a two-key sweep draws a heatmap per source with the leading regime an
     for (const char* name : {"resident", "coexistence"}) CHECK(colour_anywhere(im, *regime_colour(name)));
 }
 
-TEST_CASE("the CSV reader names file, line and column of a bad value") {
-    const CsvTable t = CsvTable::parse("a,b\n1,2\n\n3,x\n", "in.csv");
-    CHECK(t.rows() == 2);
-    CHECK(t.number(0, 1) == 2.0);
-    CHECK(t.line(1) == 4);
-    CHECK_THROWS_WITH(t.number(1, 1), "in.csv:4: column b: \"x\" is not a number");
-    CHECK_THROWS_WITH(CsvTable::parse("a,b\n1\n", "in.csv"), "in.csv:2: 1 fields; the header has 2 columns");
-    CHECK_THROWS_WITH(t.require({"a", "c"}), "in.csv:1: missing column c; the header is a,b");
-}
-
 TEST_CASE("tessera plot: bad inputs exit 2 with a message naming the file") {
     std::string err;
     const fs::path empty = fresh_dir("empty_run");
