@@ -4,6 +4,8 @@
 #include <chrono>
 #include <cmath>
 
+#include "render/exponent_scale.hpp"
+
 namespace tessera {
 
 namespace {
@@ -16,8 +18,9 @@ TraitHistoryPoint history_point(const Engine& e) {
     const auto& a = e.lattice().all_active();
     const auto& d = e.lattice().all_dormant();
     for (std::size_t k = 0; k < a.size(); ++k) total[k % T] += static_cast<double>(a[k] + d[k]);
-    const double lnK = std::log(e.scenario().K);
-    for (double n : total) p.exponent.push_back(std::log1p(n) / lnK);
+    // Schedules that change a capacity do not move P: the scale stays fixed during a run.
+    const double patches = capacity_weighted_patches(e.scenario());
+    for (double n : total) p.exponent.push_back(normalised_exponent(n, patches, e.scenario().K));
     return p;
 }
 

@@ -18,10 +18,12 @@
 
 namespace tessera {
 
-// Lattice-wide exponent of every trait at one time, for the live plot.
+// Normalised exponent of every trait at one time, for the live plot.
 struct TraitHistoryPoint {
     double t_logK = 0.0;
-    std::vector<double> exponent;  // log(1 + A + D) / log K, summed over patches, per trait
+    // log(1 + N / P) / log K per trait: N = A + D summed over patches, P the capacity-weighted
+    // number of habitable patches (render/exponent_scale.hpp); 1 = at capacity everywhere.
+    std::vector<double> exponent;
 };
 
 class SimWorker {

@@ -1,5 +1,8 @@
-// The live plot: the lattice-wide exponent log(1 + N) / log K of every trait against
-// t / ln K, one line per trait in its palette colour.
+// The live plot: the normalised exponent log(1 + N / P) / log K of every trait against
+// t / ln K (N the trait's cells on the lattice, P the capacity-weighted number of habitable
+// patches, so 1 = at carrying capacity everywhere; on one patch the usual log(1 + N) / log K),
+// one line per trait in its palette colour; the current time marked; and, when the
+// K -> infinity limit applies to the scenario, its prediction dashed in the same colours.
 #pragma once
 
 #include <SFML/Graphics/Image.hpp>
@@ -9,12 +12,19 @@
 #include "render/sim_worker.hpp"
 #include "render/trait_palette.hpp"
 #include "render/typeface.hpp"
+#include "theory/exponent_limit.hpp"
 
 namespace tessera {
 
-// Draws into the rectangle (x, y, w, h) of `image`; `until_logK` fixes the right end of the
-// time axis so lines do not rescale as they grow.
-void draw_trait_plot(sf::Image& image, Typeface& font, int x, int y, int w, int h,
-                     const std::vector<TraitHistoryPoint>& history, double until_logK, const TraitPalette& palette);
+struct TraitPlotInputs {
+    const std::vector<TraitHistoryPoint>* history = nullptr;
+    double until_logK = 0.0;                  // fixes the right end of the time axis
+    const LimitPrediction* limit = nullptr;   // null: the limit does not apply (nothing dashed)
+    bool one_patch = true;                    // words of the title: per patch or not
+};
+
+// Draws into the rectangle (x, y, w, h) of `image`.
+void draw_trait_plot(sf::Image& image, Typeface& font, int x, int y, int w, int h, const TraitPlotInputs& in,
+                     const TraitPalette& palette);
 
 }  // namespace tessera

@@ -20,6 +20,7 @@
 #include "render/trait_plot.hpp"
 #include "render/typeface.hpp"
 #include "render/viewer_script.hpp"
+#include "theory/exponent_limit.hpp"
 
 namespace tessera {
 
@@ -70,6 +71,18 @@ struct LatticePlace {
     int x = 0, y = 0, scale = 1;
 };
 
+// The K -> infinity limit for the live plot's dashed lines, when it applies to the scenario
+// (one patch, ...); nothing when it does not or cannot be computed (the window still runs).
+std::optional<LimitPrediction> limit_for(const Scenario& scenario) {
+    if (limit_not_applicable(scenario)) return std::nullopt;
+    try {
+        return predict_limit(scenario);
+    } catch (const std::exception& e) {
+        std::cerr << "note: the K -> infinity limit is not shown: " << e.what() << "\n";
+        return std::nullopt;
+    }
+}
+
 LatticePlace place_lattice(const FieldSnapshot& s, unsigned W, unsigned H) {
     const int area_w = std::max(static_cast<int>(W) - panel_w - 2 * pad, 1);
     const int area_h = std::max(static_cast<int>(H) - bottom_h - 2 * pad, 1);
@@ -86,7 +99,7 @@ class Viewer {
 public:
     Viewer(const Scenario& scenario, const ViewerOptions& o)
         : scenario_(scenario), options_(o), worker_(scenario), palette_(TraitGrid(scenario.dormancy_axis, scenario.transfer_axis)),
-          view_(o.view) {}
+          view_(o.view), limit_(limit_for(scenario)) {}
 
     int run();
 
@@ -119,6 +132,7 @@ private:
     LatticePlace place_;
     std::string message_;  // last action, shown in the panel
     std::string error_;    // why the simulation stopped early (SimWorker::error), once printed
+    std::optional<LimitPrediction> limit_;  // dashed in the plot when the limit applies
 };
 
 void Viewer::handle_key(sf::Keyboard::Key key) {
@@ -284,7 +298,12 @@ void Viewer::compose(unsigned W, unsigned H) {
     // the inspector the rest, but never less than it needs for its numbers.
     const int below_w = panel_x - 2 * pad;
     const int plot_w = selected_ ? std::min(below_w * 3 / 5, below_w - pad - inspector_min_w) : below_w;
-    draw_trait_plot(canvas_, font_, pad, bottom_y, plot_w, bottom_h - pad, history_, scenario_.until * (scenario_.time_unit == TimeUnit::logK ? 1.0 : 1.0 / std::log(scenario_.K)), palette_);
+    TraitPlotInputs plot;
+    plot.history = &history_;
+    plot.until_logK = scenario_.until * (scenario_.time_unit == TimeUnit::logK ? 1.0 : 1.0 / std::log(scenario_.K));
+    plot.limit = limit_ ? &*limit_ : nullptr;
+    plot.one_patch = scenario_.habitat_of_patch.size() <= 1;
+    draw_trait_plot(canvas_, font_, pad, bottom_y, plot_w, bottom_h - pad, plot, palette_);
     if (selected_) {
         draw_patch_inspector(canvas_, font_, 2 * pad + plot_w, bottom_y, panel_x - 3 * pad - plot_w, bottom_h - pad,
                              snapshot_, *selected_, palette_);

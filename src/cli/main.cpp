@@ -123,6 +123,22 @@ int main(int argc, char** argv) {
     render_cmd->add_option("--video", render.video, "Also make a video with ffmpeg (e.g. run.mp4)");
     render_cmd->add_option("--fps", render.fps, "Frames per second of the video")->check(CLI::PositiveNumber);
 
+    PlotOptions plot;
+    auto* plot_cmd = app.add_subcommand(
+        "plot", "Draw a figure of a run (exponents against time) or of a sweep (regime map) as PNG, SVG or PDF");
+    plot_cmd->add_option("dir", plot.dir, "Output directory of 'tessera run' or 'tessera sweep'")->required();
+    plot_cmd->add_option("--out", plot.out, "Figure file; .png, .svg or .pdf (default: DIR/<what>.png, DIR/regimes.png for a sweep)");
+    plot_cmd->add_option("--what", plot.what,
+                         "exponents (default), counts (cells, log scale), habitats (exponents per habitat class), "
+                         "dormant (fraction of cells dormant)");
+    plot_cmd->add_option("--time", plot.time, "Time axis: logK (t / ln K, default) or plain (t)");
+    plot_cmd->add_option("--traits", plot.traits, "Only these traits, as dormancy:transfer joined by commas, e.g. 0:0,2:4")
+        ->type_name("LIST");
+    plot_cmd->add_option("--size", plot.size, "Size in pixels (points for SVG and PDF), default 1200x750")->type_name("WxH");
+    plot_cmd->add_option("--replicate-lines", plot.replicate_lines, "Also draw the first N replicates as thin lines")
+        ->check(CLI::NonNegativeNumber)->type_name("N");
+    plot_cmd->add_option("--panels", plot.panels, "One small panel per dormancy level (dormancy) or per habitat class (habitat)");
+
     ViewOptions view;
     auto* view_cmd = app.add_subcommand("view", "Watch a scenario live in a window; press H in the window for the keys");
     view_cmd->add_option("scenario", view.scenario, "Scenario file (TOML)")->required();
@@ -151,6 +167,7 @@ int main(int argc, char** argv) {
         if (*sweep_cmd) return sweep_command(sweep);
         if (*demo_cmd) return demo_command(demo);
         if (*render_cmd) return render_command(render);
+        if (*plot_cmd) return plot_command(plot);
         if (*view_cmd) return view_command(view);
     } catch (const std::exception& e) {
         std::cerr << "internal error: " << e.what() << "\n";

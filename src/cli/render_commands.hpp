@@ -1,5 +1,5 @@
-// The two picture commands: `tessera render` (frames from a finished run's fields.h5) and
-// `tessera view` (the live window). Kept apart from commands.hpp so the render library is
+// The picture commands: `tessera render` (frames from a finished run's fields.h5),
+// `tessera plot` (figures of runs and sweeps) and `tessera view` (the live window). Kept apart from commands.hpp so the render library is
 // the only graphics dependency of the command line.
 #pragma once
 
@@ -28,7 +28,19 @@ struct ViewOptions {
     std::string view = "trait";
 };
 
+struct PlotOptions {
+    std::string dir;             // a run's or a sweep's output directory
+    std::string out;             // "" = DIR/<what>.png (DIR/regimes.png for a sweep)
+    std::string what = "exponents";
+    std::string time = "logK";
+    std::string traits;          // "x:y,x:y"; "" = every trait that has cells
+    std::string size = "1200x750";
+    int replicate_lines = 0;
+    std::string panels;          // "", "dormancy" or "habitat"
+};
+
 int render_command(const RenderOptions& options);
+int plot_command(const PlotOptions& options);
 int view_command(const ViewOptions& options);
 
 }  // namespace tessera::cli
