@@ -6,15 +6,23 @@
 
 #include "cli/commands.hpp"
 #include "cli/render_commands.hpp"
+#include "cluster/cluster.hpp"
 #include "version.hpp"
 
 int main(int argc, char** argv) {
     using namespace tessera::cli;
+    // Under an MPI launcher, the processes of one run (docs/guide.md "Running on a cluster").
+    const tessera::cluster::Launch launch(argc, argv);
+    if (!launch.error().empty()) {
+        std::cerr << "error: " << launch.error() << "\n";
+        return 2;
+    }
     CLI::App app{
         "tessera: stochastic simulation of bacterial populations with dormancy, conjugative\n"
         "transfer and mutation on a lattice of biofilm patches. A research model, not guidance\n"
         "for clinical or environmental decisions."};
-    app.set_version_flag("--version", std::string("tessera ") + tessera::version + " (build " + tessera::build_id + ")");
+    app.set_version_flag("--version", std::string("tessera ") + tessera::version + " (build " + tessera::build_id + ", " +
+                                          tessera::cluster::build_description() + ")");
     app.require_subcommand(1);
     app.footer("Run 'tessera COMMAND --help' for the options of a command. Exit codes: 0 success, 2 bad input, 1 internal error.");
 

@@ -8,6 +8,8 @@
 #include <limits>
 #include <optional>
 #include <stdexcept>
+#include <string>
+#include <type_traits>
 
 #include "core/count_limit.hpp"
 #include "core/exact_patch.hpp"
@@ -75,6 +77,7 @@ Engine::Engine(const Scenario& scenario, std::uint32_t replicate)
         scenario_.habitat_of_patch.assign(lattice_.patches(), 0);
     }
     class_conditions_ = timeline_.at(0.0);
+    band_ = {0, lattice_.height()};
     inoculate();
 #ifdef TESSERA_VALIDATE
     scratch_->validator.emplace(scenario_.source_path, scenario_.seed, replicate_);
@@ -137,8 +140,14 @@ void Engine::run(Observer& observer, const std::atomic<bool>* stop, bool resumed
         }
         const bool finished = reached(time_, end);
         if (finished) due |= series_output | (every[1] > 0 ? unsigned{fields_output} : 0u);
-        if (due) observer.observe(*this, due);
-        if (finished || (stop && stop->load())) return;
+        if (due) {
+            if (partition_ && shared_step_ != step_) share_state();
+            observer.observe(*this, due);
+        }
+        if (finished || stop_agreed(stop)) {
+            if (partition_ && shared_step_ != step_) share_state();  // state() sees every patch
+            return;
+        }
 #ifdef TESSERA_VALIDATE
         if (scratch_->validator->stop_now()) return;  // TESSERA_STOP_AFTER_STEP
 #endif
@@ -149,23 +158,44 @@ void Engine::run(Observer& observer, const std::atomic<bool>* stop, bool resumed
         }
         advance_to(target, stop);
         // Stopped between output times: nothing is due now, so the outputs are complete.
-        if (stop && stop->load() && !reached(time_, target)) return;
+        const bool stopped = partition_ ? stop_agreed_ : stop && stop->load();
+        if (stopped && !reached(time_, target)) {
+            if (partition_ && shared_step_ != step_) share_state();
+            return;
+        }
     }
 }
 
 void Engine::advance_to(double t_end, const std::atomic<bool>* stop) {
     while (!reached(time_, t_end)) {
-        if (stop && stop->load()) return;
+        if (!partition_ && stop && stop->load()) return;
+        if (partition_ && stop_agreed_) return;
         double next = std::min({t_end, time_ + scenario_.sync, timeline_.next_change_after(time_)});
         if (reached(next, t_end)) next = t_end;
         // Never a step that could carry a patch past 2^62 cells: near the limit a long step
         // is cut short, or the run stops here with CellLimitError (core/count_limit.hpp).
-        next = limit_step(*this, next);
+        if (partition_) {
+            // One agreement per step: the stop, and the fullest patch of any band.
+            bool halt = stop && stop->load();
+            double most = largest_patch_total(*this, static_cast<std::size_t>(band_.first) * lattice_.width(),
+                                              static_cast<std::size_t>(band_.end) * lattice_.width());
+            partition_->agree(halt, most);
+            if (halt) {
+                stop_agreed_ = true;
+                return;
+            }
+            const auto end = step_end_below_limit(*this, next, most);
+            if (!end) share_state();  // so that every process names the same patch as it throws
+            next = end ? *end : limit_step(*this, next);
+        } else {
+            next = limit_step(*this, next);
+        }
 #ifdef TESSERA_VALIDATE
         validate_before_step(next);
 #endif
         step(next - time_);
         time_ = next;
+        if (partition_ && step_ % balance_every_steps == 0) share_state();
 #ifdef TESSERA_VALIDATE
         validate_after_step();
         if (scratch_->validator->stop_now()) return;
@@ -212,7 +242,8 @@ void Engine::exact_spatial_step(double dt) {
 void Engine::local_phase(double dt) {
     const int T = traits_.size();
     const StreamKey base{scenario_.seed, replicate_, 0};
-    parallel_for(std::size_t{0}, lattice_.patches(), [&](std::size_t p) {
+    const std::size_t W = static_cast<std::size_t>(lattice_.width());
+    parallel_for(band_.first * W, band_.end * W, [&](std::size_t p) {
         std::int64_t* a = lattice_.active(p);
         std::int64_t* d = lattice_.dormant(p);
         if (!has_cells(a, d, T)) return;  // idle patches cost a scan of their counts
@@ -239,15 +270,22 @@ void Engine::migration_phase(double dt) {
     const std::size_t P = lattice_.patches();
     const std::size_t per_patch = static_cast<std::size_t>(dirs) * 2 * T;
     Scratch& s = *scratch_;
-    s.outbox.assign(P * per_patch, 0);
-    s.lost_per_patch.assign(P, 0);
-    s.sent_per_patch.assign(P, 0);
-    s.received_per_patch.assign(P, 0);
+    // Only this band's patches are stepped: only their books and boxes are cleared (the
+    // rows just outside it are filled by the exchange below; no other row is read).
+    const std::size_t W = static_cast<std::size_t>(lattice_.width());
+    const std::size_t first = band_.first * W, end = band_.end * W;
+    s.outbox.resize(P * per_patch);
+    std::fill(s.outbox.begin() + static_cast<std::ptrdiff_t>(first * per_patch),
+              s.outbox.begin() + static_cast<std::ptrdiff_t>(end * per_patch), 0);
+    for (auto* books : {&s.lost_per_patch, &s.sent_per_patch, &s.received_per_patch}) {
+        books->resize(P);
+        std::fill(books->begin() + static_cast<std::ptrdiff_t>(first), books->begin() + static_cast<std::ptrdiff_t>(end), 0);
+    }
     const double rate[2] = {scenario_.rates.migration, scenario_.rates.migration_dormant};
     const StreamKey base{scenario_.seed, replicate_, 0};
 
     // Emigration: each patch writes only its own counts and its own outbox.
-    parallel_for(std::size_t{0}, P, [&](std::size_t p) {
+    parallel_for(first, end, [&](std::size_t p) {
         std::int64_t* counts[2] = {lattice_.active(p), lattice_.dormant(p)};
         if (!has_cells(counts[0], counts[1], T)) return;
         const PatchConditions& here = conditions(p);
@@ -285,8 +323,11 @@ void Engine::migration_phase(double dt) {
         }
     });
 
+    // The boxes of the rows next to the band, from the processes that step them.
+    if (partition_) partition_->exchange_rows(s.outbox.data(), W * per_patch);
+
     // Immigration: each patch reads what its neighbours sent towards it, in direction order.
-    parallel_for(std::size_t{0}, P, [&](std::size_t q) {
+    parallel_for(first, end, [&](std::size_t q) {
         const int col = static_cast<int>(q % lattice_.width());
         const int row = static_cast<int>(q / lattice_.width());
         std::int64_t* counts[2] = {lattice_.active(q), lattice_.dormant(q)};
@@ -304,7 +345,7 @@ void Engine::migration_phase(double dt) {
             }
         }
     });
-    for (std::size_t p = 0; p < P; ++p) {
+    for (std::size_t p = first; p < end; ++p) {
         lost_ += s.lost_per_patch[p];
         migrants_ += s.sent_per_patch[p];
     }
@@ -330,6 +371,91 @@ void Engine::restore(const State& s) {
     lost_ = s.lost;
     migrants_ = s.migrants;
     class_conditions_ = s.class_conditions;
+}
+// ------------------------------------------------------------------------------------------
+
+// --- runs split over processes ------------------------------------------------------------
+void Engine::set_partition(LatticePartition* partition) {
+    if (partition && partition->processes() > 1) {
+        const std::string n = std::to_string(partition->processes());
+        if (scenario_.method == Method::exact_spatial)
+            throw std::invalid_argument("method = \"exact-spatial\" is one event queue over the whole lattice, serial "
+                                        "by nature, so it cannot be split over " + n +
+                                        " processes: run it as one process, or choose method = \"exact\", \"leap\" or "
+                                        "\"auto\"");
+        if (lattice_.height() < partition->processes())
+            throw std::invalid_argument("the lattice has " + std::to_string(lattice_.height()) +
+                                        " rows, too few to give each of " + n +
+                                        " processes a band of rows: use at most " +
+                                        std::to_string(lattice_.height()) + " processes");
+#ifdef TESSERA_VALIDATE
+        throw std::invalid_argument("the validate mode checks the whole lattice after every step: run it as one process");
+#endif
+    }
+    partition_ = partition;
+    stop_agreed_ = false;
+    shared_step_ = step_;
+    lost_shared_ = lost_;
+    migrants_shared_ = migrants_;
+    events_at_balance_.assign(lattice_.patches(), 0);
+    balance_step_ = step_;
+    band_ = {0, lattice_.height()};
+    if (partition_) rebalance();
+}
+
+bool Engine::stop_agreed(const std::atomic<bool>* stop) {
+    if (!partition_) return stop && stop->load();
+    if (stop_agreed_) return true;
+    bool halt = stop && stop->load();
+    double unused = 0.0;
+    partition_->agree(halt, unused);
+    stop_agreed_ = halt;
+    return halt;
+}
+
+void Engine::share_state() {
+    static_assert(sizeof(EventCounts) % sizeof(std::uint64_t) == 0 && std::is_standard_layout_v<EventCounts>,
+                  "EventCounts is shared as an array of 64-bit counters");
+    constexpr std::size_t counters = sizeof(EventCounts) / sizeof(std::uint64_t);
+    const std::size_t W = static_cast<std::size_t>(lattice_.width());
+    const std::size_t T = static_cast<std::size_t>(lattice_.traits());
+    partition_->share_rows(reinterpret_cast<std::uint64_t*>(lattice_.active(0)), W * T);
+    partition_->share_rows(reinterpret_cast<std::uint64_t*>(lattice_.dormant(0)), W * T);
+    partition_->share_rows(reinterpret_cast<std::uint64_t*>(patch_counts_.data()), W * counters);
+    // Integer sums: exact in any order, so the totals equal one process's.
+    std::uint64_t since[2] = {lost_ - lost_shared_, migrants_ - migrants_shared_};
+    partition_->sum(since, 2);
+    lost_ = lost_shared_ + since[0];
+    migrants_ = migrants_shared_ + since[1];
+    lost_shared_ = lost_;
+    migrants_shared_ = migrants_;
+    shared_step_ = step_;
+    rebalance();
+}
+
+// The cost of a patch since the last balance: its events while it is simulated event by
+// event, but at most what a leap costs (the auto method leaps above auto_leap_events per
+// step, and a leap's cost does not grow with its events); an occupied patch costs at least
+// one, an empty one nothing. Computed from shared numbers only, so identical everywhere.
+// The bands change only the speed, never a bit of the results.
+void Engine::rebalance() {
+    const int W = lattice_.width();
+    const int T = traits_.size();
+    const double steps = static_cast<double>(std::max<std::uint64_t>(1, step_ - balance_step_));
+    std::vector<double> row_cost(static_cast<std::size_t>(lattice_.height()), 0.0);
+    for (int row = 0; row < lattice_.height(); ++row) {
+        for (int col = 0; col < W; ++col) {
+            const std::size_t p = lattice_.patch_at(col, row);
+            const std::uint64_t events = patch_counts_[p].events();
+            const double recent = static_cast<double>(events - events_at_balance_[p]);
+            events_at_balance_[p] = events;
+            if (!has_cells(lattice_.active(p), lattice_.dormant(p), T) && recent == 0) continue;
+            row_cost[static_cast<std::size_t>(row)] += 1.0 + std::min(recent, auto_leap_events * steps);
+        }
+    }
+    balance_step_ = step_;
+    partition_->rebalance(row_cost);
+    band_ = partition_->band();
 }
 // ------------------------------------------------------------------------------------------
 
