@@ -17,6 +17,12 @@ int main(int argc, char** argv) {
         std::cerr << "error: " << launch.error() << "\n";
         return 2;
     }
+    // Every rank parses the same command and meets the same errors: rank 0 alone tells them
+    // (a rank's own trouble, e.g. a timeout waiting for the others, still reaches stderr).
+    if (tessera::cluster::rank() != 0) {
+        std::cout.setstate(std::ios::badbit);
+        std::cerr.setstate(std::ios::badbit);
+    }
     CLI::App app{
         "tessera: stochastic simulation of bacterial populations with dormancy, conjugative\n"
         "transfer and mutation on a lattice of biofilm patches. A research model, not guidance\n"

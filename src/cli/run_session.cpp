@@ -178,6 +178,7 @@ int follow(const Scenario& scenario, const Checkpoint* from, const SessionOption
     }
     std::signal(SIGINT, SIG_DFL);
     std::signal(SIGTERM, SIG_DFL);
+    cluster::max_over_ranks(interrupt_signal.load());  // rank 0 names the signal any rank had
     return cluster::code_of_rank0(0);
 }
 
@@ -322,6 +323,8 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
         tessera::parallel_for(0, R, replicate);
     }
     progress.finish();
+    // A stop agreed by every rank may come from a signal to another rank only.
+    interrupt_signal = cluster::max_over_ranks(interrupt_signal.load());
     return cluster::code_of_rank0(report(scenario, dir, series, habitat_series, failure, finished, stopped_at,
                                          limit_replicate, R, options));
 }

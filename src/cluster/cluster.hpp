@@ -38,6 +38,8 @@ std::unique_ptr<LatticePartition> lattice_partition(int height, bool periodic);
 // Rank 0's `code` on every process (each passes its own; only rank 0's counts). Without
 // MPI, `code` itself.
 int code_of_rank0(int code);
+// The largest of every process's `value` (collective). Without MPI, `value`.
+int max_over_ranks(int value);
 // Ends every process of the run with `code`, at once (after rank 0 met an error the others
 // cannot see, so that they do not wait for it). Without MPI, std::exit(code).
 [[noreturn]] void stop_all(int code);

@@ -80,6 +80,14 @@ int code_of_rank0(int code) {
     return code;
 }
 
+int max_over_ranks(int value) {
+    if (!started) return value;
+    MPI_Request request;
+    MPI_Iallreduce(MPI_IN_PLACE, &value, 1, MPI_INT, MPI_MAX, world, &request);
+    wait_all(1, &request, "agreeing on the signal that stopped the run");
+    return value;
+}
+
 void stop_all(int code) {
     if (!started) std::exit(code);
     MPI_Abort(MPI_COMM_WORLD, code);

@@ -36,7 +36,7 @@ case $case in
     case $case in
       tube-wall)  # auto method, 4-neighbourhood, walls across the bands, a schedule, frames
         scenario=$maps/tube-wall/scenario.toml
-        set=(--set run.until=0.8 --set output.fields_every=0.2 --set output.frames_every=0.4) ;;
+        set=(--set run.until=0.6 --set output.fields_every=0.2 --set output.frames_every=0.3) ;;
       soil-periodic-exact)  # periodic wrap across the first and last band, 8-neighbourhood
         scenario=$maps/soil-crumb/scenario.toml
         set=(--set run.method=exact --set run.until=0.6 --set output.fields_every=0.2 --set output.frames_every=0) ;;
@@ -64,7 +64,7 @@ case $case in
     # SIGTERM to every rank (as a scheduler does; mpirun then exits with the ranks' 143),
     # resumed as one plain process. Both must end with the bytes of an uninterrupted run.
     scenario=$maps/tube-wall/scenario.toml
-    set=(--set run.until=3.0 --set output.fields_every=0.25 --set output.frames_every=1.0)
+    set=(--set run.until=2.0 --set output.fields_every=0.25 --set output.frames_every=0.5)
     "$tessera" run "$scenario" --out plain --quiet "${set[@]}"
     for plan in 3:2:launcher 4:0:ranks; do
         IFS=: read -r from to target <<< "$plan"
@@ -92,6 +92,27 @@ case $case in
         rm -f "$dir.err"
         same plain "$dir"
     done ;;
+  hung-rank)
+    # A rank that stops answering (SIGSTOP) makes the others give up after
+    # TESSERA_RANK_TIMEOUT seconds with a message naming what they waited for, instead of
+    # waiting for ever; the run then resumes from its last checkpoint to the same bytes.
+    scenario=$maps/tube-wall/scenario.toml
+    set=(--set run.until=1.5 --set output.fields_every=0.25 --set output.frames_every=0)
+    "$tessera" run "$scenario" --out plain --quiet "${set[@]}"
+    TESSERA_RANK_TIMEOUT=2 "${launch[@]}" -x TESSERA_RANK_TIMEOUT -np 3 "$tessera" run "$scenario" --out hung --quiet \
+        "${set[@]}" 2> hung.err &
+    pid=$!
+    for _ in $(seq 400); do
+        [ -f hung/series.csv ] && [ "$(wc -l < hung/series.csv)" -gt 40 ] && break
+        sleep 0.025
+    done
+    kill -STOP "$(pgrep -P "$pid" | sed -n 2p)"
+    code=0
+    wait "$pid" || code=$?
+    [ "$code" != 0 ] || fail "$case: the run with a stopped rank exited 0"
+    grep -q "no word from the other ranks for 2 s" hung.err || { cat hung.err >&2; fail "$case: no timeout message"; }
+    ranks 2 resume hung --quiet
+    same plain hung ;;
   refusals)
     # exact-spatial is serial: refused on 2 ranks with exit 2 and a message that says why.
     set +e
