@@ -1,8 +1,6 @@
 #include "cluster/mpi_partition.hpp"
 
-#include <algorithm>
 #include <climits>
-#include <cmath>
 #include <stdexcept>
 #include <string>
 
@@ -25,54 +23,14 @@ MpiPartition::MpiPartition(int height, bool periodic, MPI_Comm comm)
     : height_(height), periodic_(periodic), comm_(comm) {
     MPI_Comm_rank(comm_, &rank_);
     MPI_Comm_size(comm_, &size_);
-    start_.resize(static_cast<std::size_t>(size_) + 1);
     rebalance(std::vector<double>(static_cast<std::size_t>(height_), 0.0));
 }
 
-// Cuts where the running cost crosses k / size of the total, the nearer of the two rows
-// around the crossing, keeping at least one row per rank. With no cost at all, equal bands.
-void MpiPartition::rebalance(const std::vector<double>& row_cost) {
-    const int H = height_, N = size_;
-    start_[0] = 0;
-    start_[static_cast<std::size_t>(N)] = H;
-    double total = 0.0;
-    for (double c : row_cost) total += c;
-    if (!(total > 0)) {
-        for (int k = 1; k < N; ++k) start_[static_cast<std::size_t>(k)] = static_cast<int>((static_cast<long long>(k) * H) / N);
-        return;
-    }
-    std::vector<double> prefix(static_cast<std::size_t>(H) + 1, 0.0);  // cost of rows [0, r)
-    for (int r = 0; r < H; ++r) prefix[static_cast<std::size_t>(r) + 1] = prefix[static_cast<std::size_t>(r)] + row_cost[static_cast<std::size_t>(r)];
-    int r = 0;
-    for (int k = 1; k < N; ++k) {
-        const double target = total * k / N;
-        while (r < H && prefix[static_cast<std::size_t>(r)] < target) ++r;
-        int cut = r;
-        if (cut > 0 && target - prefix[static_cast<std::size_t>(cut) - 1] < prefix[static_cast<std::size_t>(cut)] - target) --cut;
-        cut = std::clamp(cut, start_[static_cast<std::size_t>(k) - 1] + 1, H - (N - k));
-        start_[static_cast<std::size_t>(k)] = cut;
-    }
-}
+void MpiPartition::rebalance(const std::vector<double>& row_cost) { start_ = cut_bands(row_cost, size_); }
 
-int MpiPartition::owner(int row) const {
-    const auto it = std::upper_bound(start_.begin(), start_.end(), row);
-    return static_cast<int>(it - start_.begin()) - 1;
-}
+int MpiPartition::owner(int row) const { return band_of_row(start_, row); }
 
-std::vector<int> MpiPartition::halo_of(int q) const {
-    const int first = start_[static_cast<std::size_t>(q)], end = start_[static_cast<std::size_t>(q) + 1];
-    std::vector<int> rows;
-    for (int row : {first - 1, end}) {
-        if (row < 0 || row >= height_) {
-            if (!periodic_) continue;
-            row = (row + height_) % height_;
-        }
-        if (row >= first && row < end) continue;  // its own (a band that wraps onto itself)
-        if (std::find(rows.begin(), rows.end(), row) != rows.end()) continue;
-        rows.push_back(row);
-    }
-    return rows;
-}
+std::vector<int> MpiPartition::halo_of(int q) const { return halo_rows(start_, q, periodic_); }
 
 void MpiPartition::exchange_rows(std::int64_t* data, std::size_t values_per_row) {
     const int n = checked_count(values_per_row);

@@ -29,9 +29,8 @@ public:
     const std::vector<int>& starts() const { return start_; }
 
 private:
-    // The rows next to rank q's band that it reads in the immigration phase (above, then
-    // below; wrapped when periodic, left out off a closed edge or inside the band). The
-    // position in this list is the message tag.
+    // The rows next to rank q's band that it reads (core's halo_rows); the position in
+    // this list is the message tag.
     std::vector<int> halo_of(int q) const;
     int owner(int row) const;
 

@@ -52,4 +52,19 @@ public:
     virtual void agree(bool& stop, double& largest) = 0;
 };
 
+// The band arithmetic every implementation shares (src/core/lattice_partition.cpp), so that
+// it is tested without MPI (tests/partition_test.cpp).
+//
+// The first row of each of `parts` bands of `row_cost.size()` rows, then the height
+// ([parts + 1]): cut where the running cost crosses k / parts of the total (the nearer of the
+// two rows around the crossing), at least one row per band; equal bands when nothing costs.
+// Needs parts <= rows.
+std::vector<int> cut_bands(const std::vector<double>& row_cost, int parts);
+// The rows next to band q (of `starts`, as cut_bands gives) that its immigration phase reads:
+// the row above, then the row below, wrapped when periodic, left out off a closed edge, inside
+// the band itself or when already listed. The position in the list names the message.
+std::vector<int> halo_rows(const std::vector<int>& starts, int q, bool periodic);
+// The band holding `row`.
+int band_of_row(const std::vector<int>& starts, int row);
+
 }  // namespace tessera
