@@ -41,7 +41,7 @@ int main(int argc, char** argv) {
     run_cmd->add_option("--seed", run.seed, "Random seed (overrides run.seed)");
     run_cmd->add_option("--threads", run.threads, "Worker threads, 0 = all cores (overrides run.threads)")
         ->check(CLI::NonNegativeNumber);
-    run_cmd->add_option("--replicates", run.replicates, "Independent replicates, run in parallel")
+    run_cmd->add_option("--replicates", run.replicates, "Independent replicates, run in parallel (one after another under mpirun, each over every rank)")
         ->check(CLI::PositiveNumber);
     run_cmd->add_flag("--quiet", run.quiet, "No progress bar or messages");
     run_cmd->add_flag("--overwrite", run.overwrite, "Allow --out to name a directory that already holds a run");

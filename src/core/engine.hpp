@@ -112,6 +112,12 @@ public:
     // ------------------------------------------------------------------------------------
 
 private:
+    // "auto" leaps when a step holds many events (total rate * dt above this), exact
+    // otherwise: below a few hundred events the exact engine costs no more than a leap's
+    // Poisson draws, and it is exact. The leap engine itself still simulates small traits
+    // event by event. Also the most a patch costs per step when cutting bands.
+    static constexpr double auto_leap_events = 300.0;
+
     bool stop_agreed(const std::atomic<bool>* stop);  // the same answer on every process
     void share_state();                               // whole state everywhere, then rebalance
     void rebalance();
