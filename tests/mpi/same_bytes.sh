@@ -26,6 +26,15 @@ same() {  # same DIR_A DIR_B [SKIP]: every output file byte for byte (checkpoint
     [ "$(cd "$a" && find . -type f | wc -l)" = "$(cd "$b" && find . -type f | wc -l)" ] ||
         fail "$case: $b does not hold the same files as $a"
 }
+children() {  # children PID: the processes mpirun started, in order (from /proc: no procps needed)
+    local target=$1 stat rest ppid
+    for stat in /proc/[0-9]*/stat; do
+        rest=$(cat "$stat" 2>/dev/null) || continue
+        rest=${rest##*) }  # after "pid (comm) ": state, ppid, ...
+        read -r _ ppid _ <<< "$rest"
+        if [ "$ppid" = "$target" ]; then stat=${stat#/proc/}; echo "${stat%/stat}"; fi
+    done | sort -n
+}
 ranks() {  # ranks N tessera-arguments...
     local n=$1; shift
     "${launch[@]}" -np "$n" "$tessera" "$@"
@@ -76,7 +85,7 @@ case $case in
             [ -f "$dir/series.csv" ] && [ "$(wc -l < "$dir/series.csv")" -gt 40 ] && break
             sleep 0.025
         done
-        if [ "$target" = launcher ]; then kill -TERM "$pid"; else kill -TERM $(pgrep -P "$pid"); fi
+        if [ "$target" = launcher ]; then kill -TERM "$pid"; else kill -TERM $(children "$pid"); fi
         code=0
         wait "$pid" || code=$?
         [ "$code" != 0 ] || fail "$case: the $from-rank run was not interrupted (it finished first)"
@@ -106,7 +115,7 @@ case $case in
         [ -f hung/series.csv ] && [ "$(wc -l < hung/series.csv)" -gt 40 ] && break
         sleep 0.025
     done
-    kill -STOP "$(pgrep -P "$pid" | sed -n 2p)"
+    kill -STOP "$(children "$pid" | sed -n 2p)"
     code=0
     wait "$pid" || code=$?
     [ "$code" != 0 ] || fail "$case: the run with a stopped rank exited 0"
