@@ -6,15 +6,29 @@
 
 #include "cli/commands.hpp"
 #include "cli/render_commands.hpp"
+#include "cluster/cluster.hpp"
 #include "version.hpp"
 
 int main(int argc, char** argv) {
     using namespace tessera::cli;
+    // Under an MPI launcher, the processes of one run (docs/guide.md "Running on a cluster").
+    const tessera::cluster::Launch launch(argc, argv);
+    if (!launch.error().empty()) {
+        std::cerr << "error: " << launch.error() << "\n";
+        return 2;
+    }
+    // Every rank parses the same command and meets the same errors: rank 0 alone tells them
+    // (a rank's own trouble, e.g. a timeout waiting for the others, still reaches stderr).
+    if (tessera::cluster::rank() != 0) {
+        std::cout.setstate(std::ios::badbit);
+        std::cerr.setstate(std::ios::badbit);
+    }
     CLI::App app{
         "tessera: stochastic simulation of bacterial populations with dormancy, conjugative\n"
         "transfer and mutation on a lattice of biofilm patches. A research model, not guidance\n"
         "for clinical or environmental decisions."};
-    app.set_version_flag("--version", std::string("tessera ") + tessera::version + " (build " + tessera::build_id + ")");
+    app.set_version_flag("--version", std::string("tessera ") + tessera::version + " (build " + tessera::build_id + ", " +
+                                          tessera::cluster::build_description() + ")");
     app.require_subcommand(1);
     app.footer("Run 'tessera COMMAND --help' for the options of a command. Exit codes: 0 success, 2 bad input, 1 internal error.");
 
@@ -27,7 +41,7 @@ int main(int argc, char** argv) {
     run_cmd->add_option("--seed", run.seed, "Random seed (overrides run.seed)");
     run_cmd->add_option("--threads", run.threads, "Worker threads, 0 = all cores (overrides run.threads)")
         ->check(CLI::NonNegativeNumber);
-    run_cmd->add_option("--replicates", run.replicates, "Independent replicates, run in parallel")
+    run_cmd->add_option("--replicates", run.replicates, "Independent replicates, run in parallel (one after another under mpirun, each over every rank)")
         ->check(CLI::PositiveNumber);
     run_cmd->add_flag("--quiet", run.quiet, "No progress bar or messages");
     run_cmd->add_flag("--overwrite", run.overwrite, "Allow --out to name a directory that already holds a run");

@@ -21,6 +21,7 @@
 #include "cli/predict_models.hpp"
 #include "cli/progress.hpp"
 #include "cli/run_ensemble.hpp"
+#include "cluster/cluster.hpp"
 #include "core/count_limit.hpp"
 #include "core/engine.hpp"
 #include "core/parallel.hpp"
@@ -122,8 +123,74 @@ void remove_frames_from(const fs::path& dir, std::uint64_t from) {
 
 std::string fields_name(int r) { return r == 0 ? "fields.h5" : "fields.replicate" + std::to_string(r) + ".h5"; }
 
+// --- runs split over MPI ranks (docs/guide.md "Running on a cluster") ----------------------
+// Rank 0 runs the session below and writes every file; the other ranks follow(): they step
+// their bands of each replicate in turn and write nothing. Replicates run one after another,
+// each over all ranks. Every rank decides the same from the same scenario and checkpoint;
+// what only rank 0 can see (its files) it broadcasts: whether to start, and the exit code.
+
+class NoOutputs : public Observer {
+public:
+    void observe(const Engine&, unsigned) override {}
+};
+
+// Why this scenario cannot be split over the ranks, if it cannot (the same on every rank).
+std::string cluster_refusal(const Scenario& scenario) {
+    const int n = cluster::size();
+    if (n <= 1) return {};
+    if (scenario.method == Method::exact_spatial)
+        return scenario.source_path + ": run.method = \"exact-spatial\" is one event queue over the whole lattice, "
+               "serial by nature, so it cannot be split over " + std::to_string(n) +
+               " MPI ranks: run it as one process (without mpirun, or -np 1), or choose run.method = \"exact\", "
+               "\"leap\" or \"auto\"";
+    if (scenario.height < n)
+        return scenario.source_path + ": the lattice has " + std::to_string(scenario.height) +
+               " rows, too few to give each of " + std::to_string(n) + " MPI ranks a band of rows: use at most " +
+               std::to_string(scenario.height) + " ranks";
+    return {};
+}
+
+void attach_partition(Engine& engine, std::unique_ptr<LatticePartition>& partition, const Scenario& scenario) {
+    partition = cluster::lattice_partition(scenario.height, scenario.boundary == Boundary::periodic);
+    engine.set_partition(partition.get());
+}
+
+int follow(const Scenario& scenario, const Checkpoint* from, const SessionOptions& options) {
+    const int go = cluster::code_of_rank0(-1);
+    if (go >= 0) return go;
+    interrupted = false;
+    interrupt_signal = 0;
+    std::signal(SIGINT, on_interrupt);
+    std::signal(SIGTERM, on_interrupt);
+    const int R = from ? static_cast<int>(from->replicates.size()) : options.replicates;
+    for (int r = 0; r < R; ++r) {
+        const ReplicateCheckpoint* begin = from ? &from->replicates[static_cast<std::size_t>(r)] : nullptr;
+        if (begin && begin->stage == Stage::finished) continue;
+        Engine engine(scenario, static_cast<std::uint32_t>(r));
+        const bool resumed = begin && begin->stage == Stage::running;
+        if (resumed) engine.restore(begin->state);  // rank 0 reports a checkpoint that does not fit
+        std::unique_ptr<LatticePartition> partition;
+        attach_partition(engine, partition, scenario);
+        NoOutputs none;
+        try {
+            engine.run(none, &interrupted, resumed);
+        } catch (const CellLimitError&) {
+            interrupted = true;  // rank 0 reports it; the later replicates stop at once, as there
+        }
+    }
+    std::signal(SIGINT, SIG_DFL);
+    std::signal(SIGTERM, SIG_DFL);
+    cluster::max_over_ranks(interrupt_signal.load());  // rank 0 names the signal any rank had
+    return cluster::code_of_rank0(0);
+}
+
+int report(const Scenario& scenario, const fs::path& dir, CsvOutput& series, CsvOutput& habitat_series,
+           const std::string& failure, const std::vector<char>& finished, const std::vector<double>& stopped_at,
+           int limit_replicate, int R, const SessionOptions& options);
+
 // The whole run, fresh (`from` empty) or resumed from a checkpoint.
 int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* from, const SessionOptions& options) {
+    if (cluster::rank() != 0) return follow(scenario, from, options);
     const int threads = scenario.threads > 0 ? scenario.threads : tbb::info::default_concurrency();
     tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
 
@@ -151,7 +218,7 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
         // Every replicate finished; only the join of the part files may be left to do.
         if (R == 1 || !series.parts_exist() || !habitat_series.parts_exist()) {
             if (!options.quiet) std::cout << dir.string() << ": the run is already finished; nothing to resume\n";
-            return 0;
+            return cluster::code_of_rank0(0);
         }
     }
 
@@ -162,7 +229,7 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
     }
     const bool opened = from ? series.reopen(series_bytes) && habitat_series.reopen(habitat_bytes)
                              : series.open() && habitat_series.open();
-    if (!opened) return 2;
+    if (!opened) return cluster::code_of_rank0(2);
 
     CheckpointKeeper keeper(dir / "checkpoint.bin", from ? from->scenario_text : resolved_scenario_toml(scenario),
                             scenario.habitat_of_patch, std::move(sections));
@@ -170,8 +237,9 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
         if (!from) keeper.write();  // from the start, a kill -9 can be resumed
     } catch (const std::runtime_error& e) {
         std::cerr << "error: " << e.what() << "\n";
-        return 2;
+        return cluster::code_of_rank0(2);
     }
+    cluster::code_of_rank0(-1);  // the other ranks start
 
     interrupted = false;
     interrupt_signal = 0;
@@ -185,7 +253,7 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
     std::vector<double> stopped_at(static_cast<std::size_t>(R), 0.0);  // in run.time_unit
     int limit_replicate = -1;  // the replicate stopped by the cell limit (under failure_mutex)
     // tessera::parallel_for, so that a TSan build sees the fork and join (core/parallel.hpp).
-    tessera::parallel_for(0, R, [&](int r) {
+    const auto replicate = [&](int r) {
         const ReplicateCheckpoint& begin = start[static_cast<std::size_t>(r)];
         if (begin.stage == Stage::finished) {
             finished[static_cast<std::size_t>(r)] = 1;
@@ -203,6 +271,8 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
                                              ": " + e.what() + "; the file cannot be used");
                 }
             }
+            std::unique_ptr<LatticePartition> partition;
+            attach_partition(engine, partition, scenario);
             std::unique_ptr<FieldsWriter> fields;
             if (scenario.fields_every > 0) {
                 const std::string path = (dir / fields_name(r)).string();
@@ -239,12 +309,32 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
             stopped_at[static_cast<std::size_t>(r)] =
                 scenario.time_unit == TimeUnit::logK ? engine.time_logK() : engine.time();
         } catch (const std::exception& e) {
+            if (cluster::size() > 1) {
+                // The other ranks cannot see this (a file of rank 0's): end them too.
+                std::cerr << "error: " << e.what() << "\n";
+                cluster::stop_all(2);
+            }
             std::lock_guard lock(failure_mutex);
             if (failure.empty()) failure = e.what();
             interrupted = true;  // stop the other replicates too
         }
-    });
+    };
+    if (cluster::active()) {
+        for (int r = 0; r < R; ++r) replicate(r);  // each over every rank, in turn
+    } else {
+        tessera::parallel_for(0, R, replicate);
+    }
     progress.finish();
+    // A stop agreed by every rank may come from a signal to another rank only.
+    interrupt_signal = cluster::max_over_ranks(interrupt_signal.load());
+    return cluster::code_of_rank0(report(scenario, dir, series, habitat_series, failure, finished, stopped_at,
+                                         limit_replicate, R, options));
+}
+
+// The end of a session: the files joined, or what stopped it and how to continue.
+int report(const Scenario& scenario, const fs::path& dir, CsvOutput& series, CsvOutput& habitat_series,
+           const std::string& failure, const std::vector<char>& finished, const std::vector<double>& stopped_at,
+           int limit_replicate, int R, const SessionOptions& options) {
 
     bool complete = failure.empty();
     for (char f : finished) complete = complete && f;
@@ -281,18 +371,29 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
 }  // namespace
 
 int run_session(const Scenario& scenario, const std::string& out_dir, const SessionOptions& options) {
-    const fs::path dir(out_dir);
-    if (!prepare_directory(dir, options.overwrite)) return 2;
-    if (!write_text(dir / "scenario.resolved.toml", resolved_scenario_toml(scenario))) {
-        std::cerr << "error: cannot write " << (dir / "scenario.resolved.toml").string() << "\n";
+    if (const std::string refusal = cluster_refusal(scenario); !refusal.empty()) {
+        if (cluster::rank() == 0) std::cerr << "error: " << refusal << "\n";
         return 2;
     }
-    if (!write_limit_beside_run(scenario, dir)) return 2;  // one patch: the exponent limit beside the series
+    const fs::path dir(out_dir);
+    if (cluster::rank() == 0) {  // only rank 0 writes files
+        if (!prepare_directory(dir, options.overwrite)) return cluster::code_of_rank0(2);
+        if (!write_text(dir / "scenario.resolved.toml", resolved_scenario_toml(scenario))) {
+            std::cerr << "error: cannot write " << (dir / "scenario.resolved.toml").string() << "\n";
+            return cluster::code_of_rank0(2);
+        }
+        // One patch: the exponent limit beside the series.
+        if (!write_limit_beside_run(scenario, dir)) return cluster::code_of_rank0(2);
+    }
     return simulate(scenario, dir, nullptr, options);
 }
 
 int resume_session(const Scenario& scenario, const std::string& run_dir, const Checkpoint& checkpoint,
                    const SessionOptions& options) {
+    if (const std::string refusal = cluster_refusal(scenario); !refusal.empty()) {
+        if (cluster::rank() == 0) std::cerr << "error: " << refusal << "\n";
+        return 2;
+    }
     return simulate(scenario, fs::path(run_dir), &checkpoint, options);
 }
 

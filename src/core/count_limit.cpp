@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <utility>
 
 #include "core/engine.hpp"
 
@@ -61,25 +62,29 @@ std::string cause_and_remedy(const Engine& e, std::size_t patch, int trait) {
 
 }  // namespace
 
-double limit_step(const Engine& e, double t_next) {
-    const Lattice& lattice = e.lattice();
+namespace {
+
+// The fastest a patch's total can grow, per cell and unit time (count_limit.hpp).
+double growth_bound(const Engine& e) {
     const Scenario& s = e.scenario();
-    // The fastest a patch's total can grow, per cell and unit time (count_limit.hpp).
     double lambda = 0.0;
     for (double b : e.rates().birth) lambda = std::max(lambda, b);
-    if (lattice.patches() > 1) {
+    if (e.lattice().patches() > 1) {
         double permeability = 0.0;
         for (const Habitat& h : s.habitats) permeability = std::max(permeability, h.permeability);
         for (const Schedule& sc : s.schedules) permeability = std::max(permeability, sc.permeability.value_or(0.0));
         lambda += std::max(s.rates.migration, s.rates.migration_dormant) * permeability;
     }
-    if (!(lambda > 0)) return t_next;  // nothing can add a cell anywhere
+    return lambda;
+}
 
-    // The fullest patch (in doubles: a restored state is not trusted to keep sums in range).
+// The fullest patch of [first, end) and its total (in doubles: a restored state is not
+// trusted to keep sums in range).
+std::pair<std::size_t, double> fullest_patch(const Lattice& lattice, std::size_t first, std::size_t end) {
     const int T = lattice.traits();
     double most = 0.0;
     std::size_t fullest = 0;
-    for (std::size_t p = 0; p < lattice.patches(); ++p) {
+    for (std::size_t p = first; p < end; ++p) {
         const std::int64_t* a = lattice.active(p);
         const std::int64_t* d = lattice.dormant(p);
         double n = 0.0;
@@ -89,7 +94,19 @@ double limit_step(const Engine& e, double t_next) {
             fullest = p;
         }
     }
-    if (!(most > 0)) return t_next;  // no cells: none can be born or arrive
+    return {fullest, most};
+}
+
+}  // namespace
+
+double largest_patch_total(const Engine& e, std::size_t first, std::size_t end) {
+    return fullest_patch(e.lattice(), first, end).second;
+}
+
+std::optional<double> step_end_below_limit(const Engine& e, double t_next, double most) {
+    const double lambda = growth_bound(e);
+    if (!(lambda > 0)) return t_next;  // nothing can add a cell anywhere
+    if (!(most > 0)) return t_next;    // no cells: none can be born or arrive
     // Growth exponent lambda * dt that keeps the bound below the limit.
     const double reach = most * (1 + 1e-6) + 20 * std::sqrt(most) + 100;
     const double room = std::log(cell_limit_real / reach);
@@ -98,6 +115,16 @@ double limit_step(const Engine& e, double t_next) {
     // A long step (large run.sync or output intervals) near the limit: at most 10% growth.
     const double short_growth = std::log(1.1);
     if (short_growth < room) return e.time() + short_growth / lambda;
+    return std::nullopt;
+}
+
+double limit_step(const Engine& e, double t_next) {
+    const Lattice& lattice = e.lattice();
+    const Scenario& s = e.scenario();
+    const int T = lattice.traits();
+    if (!(growth_bound(e) > 0)) return t_next;  // no scan needed
+    const auto [fullest, most] = fullest_patch(lattice, 0, lattice.patches());
+    if (const auto end = step_end_below_limit(e, t_next, most)) return *end;
 
     // Stop. Name the patch's largest count.
     const std::int64_t* a = lattice.active(fullest);

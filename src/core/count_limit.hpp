@@ -23,6 +23,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <optional>
 #include <stdexcept>
 #include <string>
 
@@ -58,5 +59,13 @@ private:
 // growth) when the planned step is long enough to carry a patch past the limit but that
 // shorter one is not; else throws CellLimitError. O(patches x traits): one scan of counts.
 double limit_step(const Engine& engine, double t_next);
+
+// The two halves of limit_step, for a lattice split over processes (core/lattice_partition.hpp),
+// where each process scans its own patches and they agree on the largest total first:
+// the most cells (active and dormant) any patch in [first, end) holds, as a double;
+double largest_patch_total(const Engine& engine, std::size_t first, std::size_t end);
+// and the end of the next step given that largest total: t_next or a shorter step as
+// limit_step gives, or nothing when limit_step would throw.
+std::optional<double> step_end_below_limit(const Engine& engine, double t_next, double most);
 
 }  // namespace tessera

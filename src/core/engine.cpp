@@ -48,11 +48,6 @@ bool has_cells(const std::int64_t* a, const std::int64_t* d, int traits) {
     return false;
 }
 
-// "auto" leaps when a step holds many events (total rate * dt above this), exact otherwise:
-// below a few hundred events the exact engine costs no more than a leap's Poisson draws,
-// and it is exact. The leap engine itself still simulates small traits event by event.
-constexpr double auto_leap_events = 300.0;
-
 // The stream of the exact spatial engine, which draws for the whole lattice at once.
 constexpr std::uint32_t lattice_stream = 0xFFFFFFFFu;
 
@@ -76,6 +71,7 @@ Engine::Engine(const Scenario& scenario, std::uint32_t replicate)
         scenario_.habitat_of_patch.assign(lattice_.patches(), 0);
     }
     class_conditions_ = timeline_.at(0.0);
+    band_ = {0, lattice_.height()};
     inoculate();
 #ifdef TESSERA_VALIDATE
     scratch_->validator.emplace(scenario_.source_path, scenario_.seed, replicate_);
@@ -116,8 +112,14 @@ void Engine::run(Observer& observer, const std::atomic<bool>* stop, bool resumed
         }
         const bool finished = reached(time_, end);
         if (finished) due |= series_output | (every[1] > 0 ? unsigned{fields_output} : 0u);
-        if (due) observer.observe(*this, due);
-        if (finished || (stop && stop->load())) return;
+        if (due) {
+            if (partition_ && shared_step_ != step_) share_state();
+            observer.observe(*this, due);
+        }
+        if (finished || stop_agreed(stop)) {
+            if (partition_ && shared_step_ != step_) share_state();  // state() sees every patch
+            return;
+        }
 #ifdef TESSERA_VALIDATE
         if (scratch_->validator->stop_now()) return;  // TESSERA_STOP_AFTER_STEP
 #endif
@@ -128,23 +130,44 @@ void Engine::run(Observer& observer, const std::atomic<bool>* stop, bool resumed
         }
         advance_to(target, stop);
         // Stopped between output times: nothing is due now, so the outputs are complete.
-        if (stop && stop->load() && !reached(time_, target)) return;
+        const bool stopped = partition_ ? stop_agreed_ : stop && stop->load();
+        if (stopped && !reached(time_, target)) {
+            if (partition_ && shared_step_ != step_) share_state();
+            return;
+        }
     }
 }
 
 void Engine::advance_to(double t_end, const std::atomic<bool>* stop) {
     while (!reached(time_, t_end)) {
-        if (stop && stop->load()) return;
+        if (!partition_ && stop && stop->load()) return;
+        if (partition_ && stop_agreed_) return;
         double next = std::min({t_end, time_ + scenario_.sync, timeline_.next_change_after(time_)});
         if (reached(next, t_end)) next = t_end;
         // Never a step that could carry a patch past 2^62 cells: near the limit a long step
         // is cut short, or the run stops here with CellLimitError (core/count_limit.hpp).
-        next = limit_step(*this, next);
+        if (partition_) {
+            // One agreement per step: the stop, and the fullest patch of any band.
+            bool halt = stop && stop->load();
+            double most = largest_patch_total(*this, static_cast<std::size_t>(band_.first) * lattice_.width(),
+                                              static_cast<std::size_t>(band_.end) * lattice_.width());
+            partition_->agree(halt, most);
+            if (halt) {
+                stop_agreed_ = true;
+                return;
+            }
+            const auto end = step_end_below_limit(*this, next, most);
+            if (!end) share_state();  // so that every process names the same patch as it throws
+            next = end ? *end : limit_step(*this, next);
+        } else {
+            next = limit_step(*this, next);
+        }
 #ifdef TESSERA_VALIDATE
         validate_before_step(next);
 #endif
         step(next - time_);
         time_ = next;
+        if (partition_ && step_ % balance_every_steps == 0) share_state();
 #ifdef TESSERA_VALIDATE
         validate_after_step();
         if (scratch_->validator->stop_now()) return;
@@ -191,7 +214,8 @@ void Engine::exact_spatial_step(double dt) {
 void Engine::local_phase(double dt) {
     const int T = traits_.size();
     const StreamKey base{scenario_.seed, replicate_, 0};
-    parallel_for(std::size_t{0}, lattice_.patches(), [&](std::size_t p) {
+    const std::size_t W = static_cast<std::size_t>(lattice_.width());
+    parallel_for(band_.first * W, band_.end * W, [&](std::size_t p) {
         std::int64_t* a = lattice_.active(p);
         std::int64_t* d = lattice_.dormant(p);
         if (!has_cells(a, d, T)) return;  // idle patches cost a scan of their counts
@@ -218,15 +242,22 @@ void Engine::migration_phase(double dt) {
     const std::size_t P = lattice_.patches();
     const std::size_t per_patch = static_cast<std::size_t>(dirs) * 2 * T;
     Scratch& s = *scratch_;
-    s.outbox.assign(P * per_patch, 0);
-    s.lost_per_patch.assign(P, 0);
-    s.sent_per_patch.assign(P, 0);
-    s.received_per_patch.assign(P, 0);
+    // Only this band's patches are stepped: only their books and boxes are cleared (the
+    // rows just outside it are filled by the exchange below; no other row is read).
+    const std::size_t W = static_cast<std::size_t>(lattice_.width());
+    const std::size_t first = band_.first * W, end = band_.end * W;
+    s.outbox.resize(P * per_patch);
+    std::fill(s.outbox.begin() + static_cast<std::ptrdiff_t>(first * per_patch),
+              s.outbox.begin() + static_cast<std::ptrdiff_t>(end * per_patch), 0);
+    for (auto* books : {&s.lost_per_patch, &s.sent_per_patch, &s.received_per_patch}) {
+        books->resize(P);
+        std::fill(books->begin() + static_cast<std::ptrdiff_t>(first), books->begin() + static_cast<std::ptrdiff_t>(end), 0);
+    }
     const double rate[2] = {scenario_.rates.migration, scenario_.rates.migration_dormant};
     const StreamKey base{scenario_.seed, replicate_, 0};
 
     // Emigration: each patch writes only its own counts and its own outbox.
-    parallel_for(std::size_t{0}, P, [&](std::size_t p) {
+    parallel_for(first, end, [&](std::size_t p) {
         std::int64_t* counts[2] = {lattice_.active(p), lattice_.dormant(p)};
         if (!has_cells(counts[0], counts[1], T)) return;
         const PatchConditions& here = conditions(p);
@@ -264,8 +295,11 @@ void Engine::migration_phase(double dt) {
         }
     });
 
+    // The boxes of the rows next to the band, from the processes that step them.
+    if (partition_) partition_->exchange_rows(s.outbox.data(), W * per_patch);
+
     // Immigration: each patch reads what its neighbours sent towards it, in direction order.
-    parallel_for(std::size_t{0}, P, [&](std::size_t q) {
+    parallel_for(first, end, [&](std::size_t q) {
         const int col = static_cast<int>(q % lattice_.width());
         const int row = static_cast<int>(q / lattice_.width());
         std::int64_t* counts[2] = {lattice_.active(q), lattice_.dormant(q)};
@@ -283,7 +317,7 @@ void Engine::migration_phase(double dt) {
             }
         }
     });
-    for (std::size_t p = 0; p < P; ++p) {
+    for (std::size_t p = first; p < end; ++p) {
         lost_ += s.lost_per_patch[p];
         migrants_ += s.sent_per_patch[p];
     }

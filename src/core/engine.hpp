@@ -21,6 +21,7 @@
 #include "core/event_counts.hpp"
 #include "core/habitat_timeline.hpp"
 #include "core/lattice.hpp"
+#include "core/lattice_partition.hpp"
 #include "core/neighbourhood.hpp"
 #include "core/patch_conditions.hpp"
 #include "core/rate_table.hpp"
@@ -95,7 +96,31 @@ public:
     void restore(const State& state);
     // ------------------------------------------------------------------------------------
 
+    // --- runs split over processes (core/lattice_partition.hpp) -------------------------
+    // From now on this engine steps only its partition's band of rows and agrees with the
+    // other processes at every step; at every output time, every return from run() and
+    // every balance_every_steps steps the whole state is shared, so that observers and
+    // state() see every patch. Call after restore() and before run(); every process of the
+    // partition must make the same calls. Throws std::invalid_argument for the
+    // exact-spatial method (serial by nature) on more than one process, or for a lattice
+    // with fewer rows than processes. nullptr: a plain process again.
+    void set_partition(LatticePartition* partition);
+    // Steps between two shares of the state that rebalance the bands from the event counts
+    // since the last one: often enough to follow a moving front, rare enough that the
+    // all-to-all share of a large lattice costs little next to the steps.
+    static constexpr std::uint64_t balance_every_steps = 64;
+    // ------------------------------------------------------------------------------------
+
 private:
+    // "auto" leaps when a step holds many events (total rate * dt above this), exact
+    // otherwise: below a few hundred events the exact engine costs no more than a leap's
+    // Poisson draws, and it is exact. The leap engine itself still simulates small traits
+    // event by event. Also the most a patch costs per step when cutting bands.
+    static constexpr double auto_leap_events = 300.0;
+
+    bool stop_agreed(const std::atomic<bool>* stop);  // the same answer on every process
+    void share_state();                               // whole state everywhere, then rebalance
+    void rebalance();
     void step(double dt);
     void local_phase(double dt);
     void exact_spatial_step(double dt);
@@ -120,6 +145,16 @@ private:
     std::vector<EventCounts> patch_counts_;
     std::uint64_t lost_ = 0;
     std::uint64_t migrants_ = 0;
+
+    // The band this engine steps (every row without a partition), what it had when the
+    // state was last shared, and the stop every process agreed on.
+    LatticePartition* partition_ = nullptr;
+    RowBand band_;
+    std::uint64_t shared_step_ = 0;
+    std::uint64_t lost_shared_ = 0, migrants_shared_ = 0;
+    std::vector<std::uint64_t> events_at_balance_;  // per patch
+    std::uint64_t balance_step_ = 0;
+    bool stop_agreed_ = false;
 
     struct Scratch;
     std::unique_ptr<Scratch> scratch_;
