@@ -149,9 +149,11 @@ TEST_CASE("sweep: bad --vary specifications exit 2 naming the key, before anythi
              out.string()});
     CHECK(r.code == 2);
     CHECK_THAT(r.err, Contains("varied twice"));
-    // The exponent limit is asked for where it does not apply (here: the limit is not built).
-    r = run({"sweep", scenario().string(), "--vary", "rates.transfer=1,2", "--with", "limit", "--out", out.string()});
-    if (r.code == 2) CHECK_THAT(r.err, Contains("does not apply"));
+    // The exponent limit is asked for where it does not apply (a lattice).
+    r = run({"sweep", scenario().string(), "--vary", "rates.transfer=1,2", "--with", "limit", "--set",
+             "lattice.width=2", "--out", out.string()});
+    CHECK(r.code == 2);
+    CHECK_THAT(r.err, Contains("does not apply"));
     CHECK_FALSE(fs::exists(out / "outcomes.csv"));
 }
 
@@ -161,13 +163,14 @@ TEST_CASE("sweep: the tables hold every point and do not depend on the thread co
     same_files(reference(), two);
     const std::string outcomes = slurp(reference() / "outcomes.csv");
     CHECK(outcomes.rfind("point,source,replicate,regime,residents,period,final_t_logK\n", 0) == 0);
-    CHECK(std::count(outcomes.begin(), outcomes.end(), '\n') == 1 + 8 * 3);
+    // One patch: the limit (--with both is the default there) and 3 replicates per point.
+    CHECK(std::count(outcomes.begin(), outcomes.end(), '\n') == 1 + 8 * (1 + 3));
     CHECK(slurp(reference() / "points.csv") ==
           "point,rates.dormancy_probability,rates.transfer\n0,0,1\n1,0,3\n2,0.0833333333333,1\n3,0.0833333333333,3\n"
           "4,0.166666666667,1\n5,0.166666666667,3\n6,0.25,1\n7,0.25,3\n");
     const std::string summary = slurp(reference() / "summary.csv");
-    // 4 regimes + 9 traits per point and source.
-    CHECK(std::count(summary.begin(), summary.end(), '\n') == 1 + 8 * 13);
+    // 4 regimes + 9 traits per point and source (limit and run).
+    CHECK(std::count(summary.begin(), summary.end(), '\n') == 1 + 8 * 2 * 13);
 }
 
 TEST_CASE("sweep: shards merge to the bytes of the unsharded sweep", "[sweep]") {
@@ -262,7 +265,7 @@ TEST_CASE("sweep: --keep-series writes each point's series, and run --replicates
                  "scale.K=300", "--set", "run.until=2", "--keep-series", "--quiet", "--out", d.string()})
                 .code == 0);
     const std::string series = slurp(d / "points/0001/series.csv");
-    CHECK(series.rfind("replicate,t,t_logK,dormancy,transfer,active,dormant,exponent\n", 0) == 0);
+    CHECK(series.rfind("replicate,t,t_logK,dormancy,transfer,active,dormant,exponent,exponent_per_patch\n", 0) == 0);
     CHECK_THAT(series, Contains("\n1,"));  // both replicates
     CHECK(fs::exists(d / "points/0001/scenario.resolved.toml"));
 
