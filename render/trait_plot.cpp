@@ -13,6 +13,8 @@ namespace {
 
 // Dashes of the limit's lines, in pixels along the line.
 constexpr double dash_on = 6.0, dash_off = 4.0;
+// Dots of the deterministic model's lines.
+constexpr double dot_on = 2.0, dot_off = 3.0;
 
 std::string label(double v) {
     char buf[32];
@@ -22,14 +24,15 @@ std::string label(double v) {
 
 // A dashed line from (x0, y0) to (x1, y1); `phase` carries the dash pattern on across
 // consecutive segments so a polyline dashes evenly.
-void dashed_line(sf::Image& image, double x0, double y0, double x1, double y1, sf::Color c, double& phase) {
+void dashed_line(sf::Image& image, double x0, double y0, double x1, double y1, sf::Color c, double& phase,
+                 double on = dash_on, double off = dash_off) {
     const double length = std::hypot(x1 - x0, y1 - y0);
     double s = 0.0;
     while (s < length) {
-        const double in_period = std::fmod(phase, dash_on + dash_off);
-        const double step = in_period < dash_on ? dash_on - in_period : dash_on + dash_off - in_period;
+        const double in_period = std::fmod(phase, on + off);
+        const double step = in_period < on ? on - in_period : on + off - in_period;
         const double e = std::min(length, s + step);
-        if (in_period < dash_on) {
+        if (in_period < on) {
             const double a = s / length, b = e / length;
             const int ax = static_cast<int>(std::lround(x0 + (x1 - x0) * a)), ay = static_cast<int>(std::lround(y0 + (y1 - y0) * a));
             const int bx = static_cast<int>(std::lround(x0 + (x1 - x0) * b)), by = static_cast<int>(std::lround(y0 + (y1 - y0) * b));
@@ -54,7 +57,8 @@ void draw_trait_plot(sf::Image& image, Typeface& font, int x, int y, int w, int 
     // says which exponent this is, and what the dashed lines are when there are any.
     const std::string axis = "t / ln K";
     const int title_room = w - 16 - font.width(axis, size) - 12;
-    const std::string dashed = in.limit ? ";  dashed: limit K -> inf" : "";
+    const std::string dashed = std::string(in.limit ? ";  dashed: limit K -> inf" : "") +
+                               (in.ode ? ";  dotted: deterministic" : "");
     const std::vector<std::string> titles =
         in.one_patch ? std::vector<std::string>{"Exponent log(1+N)/log K of each trait" + dashed,
                                                 "Exponent log(1+N)/log K" + dashed, "Exponent of each trait", "Exponents"}
@@ -116,6 +120,23 @@ void draw_trait_plot(sf::Image& image, Typeface& font, int x, int y, int w, int 
                 const double e1 = a[trait] + (b[trait] - a[trait]) * (t1 - lp.knot_t_logK[k - 1]) /
                                                  (lp.knot_t_logK[k] - lp.knot_t_logK[k - 1]);
                 dashed_line(image, fx(t0), fy(a[trait]), fx(t1), fy(e1), c, phase);
+            }
+        }
+    }
+
+    // The deterministic model at this K, dotted, also under the simulated lines.
+    if (in.ode) {
+        const std::vector<TraitHistoryPoint>& ode = *in.ode;
+        for (int trait = 0; trait < palette.size(); ++trait) {
+            const sf::Color c = to_sf(palette.colour(trait));
+            double phase = 0.0;
+            for (std::size_t k = 1; k < ode.size() && ode[k].t_logK <= x_max; ++k) {
+                const auto& a = ode[k - 1].exponent;
+                const auto& b = ode[k].exponent;
+                if (static_cast<int>(a.size()) <= trait || static_cast<int>(b.size()) <= trait) continue;
+                if (a[trait] <= 0.0 && b[trait] <= 0.0) continue;
+                dashed_line(image, fx(ode[k - 1].t_logK), fy(a[trait]), fx(ode[k].t_logK), fy(b[trait]), c, phase, dot_on,
+                            dot_off);
             }
         }
     }

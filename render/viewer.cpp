@@ -20,6 +20,8 @@
 #include "render/trait_plot.hpp"
 #include "render/typeface.hpp"
 #include "render/viewer_script.hpp"
+#include "render/exponent_scale.hpp"
+#include "theory/count_model.hpp"
 #include "theory/exponent_limit.hpp"
 
 namespace tessera {
@@ -83,6 +85,34 @@ std::optional<LimitPrediction> limit_for(const Scenario& scenario) {
     }
 }
 
+// The deterministic model in counts at this K, as the live plot's history (normalised
+// exponents of the lattice totals), for `tessera view --predict ode`; computed once before
+// the window opens. Empty when it fails (the window still runs; the reason is printed).
+std::vector<TraitHistoryPoint> ode_for(const Scenario& scenario) {
+    std::vector<TraitHistoryPoint> out;
+    try {
+        const CountModel model(scenario);
+        const int T = model.traits().size();
+        const double P = capacity_weighted_patches(scenario);
+        model.run([&](const CountState& state) {
+            TraitHistoryPoint point{state.t_logK, std::vector<double>(static_cast<std::size_t>(T), 0.0)};
+            const std::size_t patches = state.active.size() / static_cast<std::size_t>(T);
+            for (int i = 0; i < T; ++i) {
+                double cells = 0.0;
+                for (std::size_t p = 0; p < patches; ++p) {
+                    cells += state.active[p * T + i] + state.dormant[p * T + i];
+                }
+                point.exponent[static_cast<std::size_t>(i)] = normalised_exponent(cells, P, scenario.K);
+            }
+            out.push_back(std::move(point));
+        });
+    } catch (const std::exception& e) {
+        std::cerr << "note: the deterministic model is not shown: " << e.what() << "\n";
+        out.clear();
+    }
+    return out;
+}
+
 LatticePlace place_lattice(const FieldSnapshot& s, unsigned W, unsigned H) {
     const int area_w = std::max(static_cast<int>(W) - panel_w - 2 * pad, 1);
     const int area_h = std::max(static_cast<int>(H) - bottom_h - 2 * pad, 1);
@@ -99,7 +129,8 @@ class Viewer {
 public:
     Viewer(const Scenario& scenario, const ViewerOptions& o)
         : scenario_(scenario), options_(o), worker_(scenario), palette_(TraitGrid(scenario.dormancy_axis, scenario.transfer_axis)),
-          view_(o.view), limit_(limit_for(scenario)) {}
+          view_(o.view), limit_(limit_for(scenario)),
+          ode_(o.predict_ode ? ode_for(scenario) : std::vector<TraitHistoryPoint>{}) {}
 
     int run();
 
@@ -133,6 +164,7 @@ private:
     std::string message_;  // last action, shown in the panel
     std::string error_;    // why the simulation stopped early (SimWorker::error), once printed
     std::optional<LimitPrediction> limit_;  // dashed in the plot when the limit applies
+    std::vector<TraitHistoryPoint> ode_;    // dotted in the plot with --predict ode
 };
 
 void Viewer::handle_key(sf::Keyboard::Key key) {
@@ -302,6 +334,7 @@ void Viewer::compose(unsigned W, unsigned H) {
     plot.history = &history_;
     plot.until_logK = scenario_.until * (scenario_.time_unit == TimeUnit::logK ? 1.0 : 1.0 / std::log(scenario_.K));
     plot.limit = limit_ ? &*limit_ : nullptr;
+    plot.ode = ode_.empty() ? nullptr : &ode_;
     plot.one_patch = scenario_.habitat_of_patch.size() <= 1;
     draw_trait_plot(canvas_, font_, pad, bottom_y, plot_w, bottom_h - pad, plot, palette_);
     if (selected_) {

@@ -18,6 +18,7 @@ struct ViewerOptions {
     std::string script;                            // see render/viewer_script.hpp
     int frames = 0;                                // close after this many frames; 0 = never
     FieldView view = FieldView::dominant_trait;
+    bool predict_ode = false;  // overlay the deterministic model at this K (dotted) in the live plot
 };
 
 // The window opens at 1280 x 860 pixels and can be resized, larger or down to this size

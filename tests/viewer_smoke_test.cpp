@@ -210,3 +210,37 @@ TEST_CASE("--record records from the first frame; R stops, and starting again nu
     CHECK(files >= 2);
     fs::remove_all(dir);
 }
+
+// tessera view --predict ode: the deterministic model at this K is drawn dotted over the
+// whole time axis of the live plot, so right of "now" (early in a long run) trait colours
+// appear there beyond the limit's dashes only with it. Counted in the plot strip at the
+// bottom of the window, right half, left of the side panel.
+TEST_CASE("--predict ode draws the deterministic model in the live plot") {
+    Scenario sc = small_scenario("ode overlay", 1, 1);
+    sc.until = 400.0;
+    const fs::path dir = fresh_dir("tessera-viewer-ode");
+    auto count_traits = [&](bool ode, const char* name) {
+        ViewerOptions o;
+        o.predict_ode = ode;
+        const fs::path shot = dir / name;
+        o.script = "frames=5;screenshot=" + shot.string() + ";quit";
+        REQUIRE(run_viewer(sc, o) == 0);
+        sf::Image image;
+        REQUIRE(image.loadFromFile(shot.string()));
+        const TraitPalette palette(3, 3);
+        std::set<std::uint32_t> colours;
+        for (int t = 0; t < palette.size(); ++t) {
+            colours.insert(sf::Color(palette.colour(t).r, palette.colour(t).g, palette.colour(t).b).toInteger());
+        }
+        const auto size = image.getSize();
+        int n = 0;
+        for (unsigned y = size.y - 220; y < size.y; ++y) {
+            for (unsigned x = size.x / 2; x < size.x - 320; ++x) n += colours.count(image.getPixel(x, y).toInteger()) > 0;
+        }
+        return n;
+    };
+    const int without = count_traits(false, "without.png");
+    const int with = count_traits(true, "with.png");
+    INFO("trait-coloured pixels right of now: " << without << " without, " << with << " with the model");
+    CHECK(with > without + 20);
+}

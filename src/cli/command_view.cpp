@@ -1,5 +1,6 @@
 // tessera view SCENARIO [--set ...] [--record DIR]: the live window; with --record, frames
-// are recorded to DIR from the first one (R stops and restarts).
+// are recorded to DIR from the first one (R stops and restarts); with --predict ode the live
+// plot overlays the deterministic model at this K.
 #include <iostream>
 
 #include "cli/render_commands.hpp"
@@ -24,6 +25,7 @@ int view_command(const ViewOptions& o) {
     options.script = o.script;
     options.frames = o.frames;
     options.view = *view;
+    options.predict_ode = o.predict == "ode";
     return run_viewer(*loaded, options);
 }
 

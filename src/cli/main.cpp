@@ -162,6 +162,10 @@ int main(int argc, char** argv) {
                          "R stops and restarts. Without it, R records to tessera-recording/")
         ->type_name("DIR");
     view_cmd->add_option("--view", view.view, "View to start with: trait, dormant, transfer, exponent, habitat, stress");
+    view_cmd->add_option("--predict", view.predict,
+                         "ode: overlay the deterministic model in counts at this K in the live plot (dotted), "
+                         "computed before the window opens; the K -> infinity limit is dashed whenever it applies")
+        ->check(CLI::IsMember({"ode"}));
     view_cmd->add_option("--frames", view.frames, "Close after this many drawn frames (for tests)")->check(CLI::NonNegativeNumber);
     view_cmd->add_option("--script", view.script,
                          "Scripted input, e.g. \"frames=60;key=V;key=Space;click=3,4;resize=900,640;screenshot=out.png;quit\"");

@@ -26,6 +26,7 @@ struct ViewOptions {
     std::string script;         // scripted input, for tests and demos
     int frames = 0;             // close after this many drawn frames (0: when the user closes it)
     std::string view = "trait";
+    std::string predict;        // "ode": overlay the deterministic model at this K; "" = none
 };
 
 struct PlotOptions {
