@@ -40,6 +40,13 @@ std::string escaped(const std::string& s) {
     return out;
 }
 
+// Every how many of `n` category labels to write along `room` pixels, each needing `need`.
+std::size_t label_stride(std::size_t n, double room, double need) {
+    if (n == 0 || !(room > 0)) return 1;
+    const double fit = std::max(1.0, std::floor(room / need));
+    return std::max<std::size_t>(1, static_cast<std::size_t>(std::ceil(static_cast<double>(n) / fit)));
+}
+
 // A round step (1, 2, 2.5 or 5 times a power of ten) giving at most `ticks` intervals over
 // `range`; 0 (PLplot's own choice) when there is room for many.
 double tick_step(double range, double ticks) {
@@ -206,11 +213,18 @@ private:
         text_size(l_.tick_em);
         if (categorical) {
             pls_.box("bc", 0.0, 0, "bc", 0.0, 0);
-            for (std::size_t k = 0; k < p.x_categories.size(); ++k) {
+            // Many categories: every k-th label, k chosen so neighbours stay a little apart
+            // (the widest label plus an em along x, 1.6 em of height along y).
+            double widest = 0.0;
+            for (const std::string& c : p.x_categories) widest = std::max(widest, text_width(c, l_.tick_em));
+            const std::size_t nx = p.x_categories.size(), ny = p.y_categories.size();
+            const std::size_t x_stride = label_stride(nx, b.width(), widest + l_.em);
+            const std::size_t y_stride = label_stride(ny, b.height(), 1.6 * l_.tick_em);
+            for (std::size_t k = 0; k < nx; k += x_stride) {
                 const double pos = (static_cast<double>(k) - p.x_min) / (p.x_max - p.x_min);
                 pls_.mtex("b", 1.5, pos, 0.5, escaped(p.x_categories[k]).c_str());
             }
-            for (std::size_t k = 0; k < p.y_categories.size(); ++k) {
+            for (std::size_t k = 0; k < ny; k += y_stride) {
                 const double pos = (static_cast<double>(k) - p.y_min) / (p.y_max - p.y_min);
                 pls_.mtex("lv", 0.6, pos, 1.0, escaped(p.y_categories[k]).c_str());
             }
