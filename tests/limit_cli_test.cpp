@@ -14,33 +14,25 @@
 #include <sstream>
 #include <string>
 
+#include "cli_support.hpp"
+
 namespace fs = std::filesystem;
 using Catch::Matchers::Contains;
+
+using namespace tessera;
 
 namespace {
 
 const std::string tool = TESSERA_BINARY;
-
-struct Scratch {
-    fs::path dir = fs::temp_directory_path() / ("tessera-limit-cli-test-" + std::to_string(::getpid()));
-    Scratch() {
-        fs::remove_all(dir);
-        fs::create_directories(dir);
-    }
-    ~Scratch() {
-        std::error_code ec;
-        if (!std::getenv("TESSERA_KEEP_TEST_FILES")) fs::remove_all(dir, ec);
-    }
-};
+using clitest::slurp;
 
 fs::path scratch() {
-    static const Scratch s;
-    return s.dir;
+    static const clitest::ScratchDir s("tessera-limit-cli-test");
+    return s.path();
 }
 
-std::string slurp(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
+int program(const std::string& args, std::string* out = nullptr, std::string* err = nullptr) {
+    return clitest::run_program(tool, args, scratch(), out, err);
 }
 
 std::string first_line(const fs::path& p) {
@@ -57,14 +49,6 @@ fs::path write(const std::string& name, const std::string& text) {
 }
 
 // Runs the program; stdout and stderr come back through `out` and `err`.
-int program(const std::string& args, std::string* out = nullptr, std::string* err = nullptr) {
-    const fs::path o = scratch() / "stdout.txt", e = scratch() / "stderr.txt";
-    const std::string cmd = "'" + tool + "' " + args + " >'" + o.string() + "' 2>'" + e.string() + "'";
-    const int status = std::system(cmd.c_str());
-    if (out) *out = slurp(o);
-    if (err) *err = slurp(e);
-    return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-}
 
 // model.md section 7's checked example.
 const std::string cycling = "title = \"transfer cycle\"\n"

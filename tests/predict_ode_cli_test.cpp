@@ -18,6 +18,7 @@
 #include <string>
 #include <vector>
 
+#include "cli_support.hpp"
 #include "core/engine.hpp"
 #include "io/series_writer.hpp"
 #include "validation_support.hpp"
@@ -29,37 +30,17 @@ using Catch::Matchers::Contains;
 namespace {
 
 const std::string tool = TESSERA_BINARY;
-
-struct Scratch {
-    fs::path dir = fs::temp_directory_path() / ("tessera-predict-ode-test-" + std::to_string(::getpid()));
-    Scratch() {
-        fs::remove_all(dir);
-        fs::create_directories(dir);
-    }
-    ~Scratch() {
-        std::error_code ec;
-        if (!std::getenv("TESSERA_KEEP_TEST_FILES")) fs::remove_all(dir, ec);
-    }
-};
+using clitest::exit_code;
+using clitest::slurp;
+using clitest::spit;
 
 fs::path scratch() {
-    static const Scratch s;
-    return s.dir;
+    static const clitest::ScratchDir s("tessera-predict-ode-test");
+    return s.path();
 }
-
-std::string slurp(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
-}
-
-void spit(const fs::path& p, const std::string& text) { std::ofstream(p, std::ios::binary) << text; }
 
 int program(const std::string& args, std::string* err = nullptr) {
-    const fs::path err_file = scratch() / "stderr.txt";
-    const std::string cmd = "'" + tool + "' " + args + " >/dev/null 2>'" + err_file.string() + "'";
-    const int status = std::system(cmd.c_str());
-    if (err) *err = slurp(err_file);
-    return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+    return clitest::run_program(tool, args, scratch(), nullptr, err);
 }
 
 std::vector<std::vector<std::string>> csv(const fs::path& p) {

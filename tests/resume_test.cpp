@@ -19,6 +19,7 @@
 #include <thread>
 #include <vector>
 
+#include "cli_support.hpp"
 #include "io/checkpoint.hpp"
 
 namespace fs = std::filesystem;
@@ -28,31 +29,18 @@ using Catch::Matchers::Contains;
 namespace {
 
 const std::string tool = TESSERA_BINARY;
-
-// A folder of this test process's own, removed at exit unless TESSERA_KEEP_TEST_FILES is set.
-struct Scratch {
-    fs::path dir = fs::temp_directory_path() / ("tessera-resume-test-" + std::to_string(::getpid()));
-    Scratch() {
-        fs::remove_all(dir);
-        fs::create_directories(dir);
-    }
-    ~Scratch() {
-        std::error_code ec;
-        if (!std::getenv("TESSERA_KEEP_TEST_FILES")) fs::remove_all(dir, ec);
-    }
-};
+using clitest::exit_code;
+using clitest::slurp;
+using clitest::spit;
 
 fs::path scratch() {
-    static const Scratch s;
-    return s.dir;
+    static const clitest::ScratchDir s("tessera-resume-test");
+    return s.path();
 }
 
-std::string slurp(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
+int program(const std::string& args, std::string* err = nullptr) {
+    return clitest::run_program(tool, args, scratch(), nullptr, err);
 }
-
-void spit(const fs::path& p, const std::string& text) { std::ofstream(p, std::ios::binary) << text; }
 
 // A small lattice with migration, a stressed patch and a stress pulse: every kind of state.
 // `until` in plain time; sized so that a run lasts long enough to be interrupted.
@@ -74,20 +62,7 @@ fs::path scenario(const std::string& name, const std::string& method, double K, 
     return file;
 }
 
-int exit_code(int status) {
-    if (WIFEXITED(status)) return WEXITSTATUS(status);
-    if (WIFSIGNALED(status)) return 128 + WTERMSIG(status);
-    return -1;
-}
-
 // Runs the program to completion; its stderr is returned through `err`.
-int program(const std::string& args, std::string* err = nullptr) {
-    const fs::path err_file = scratch() / "stderr.txt";
-    const std::string cmd = "'" + tool + "' " + args + " >/dev/null 2>'" + err_file.string() + "'";
-    const int code = exit_code(std::system(cmd.c_str()));
-    if (err) *err = slurp(err_file);
-    return code;
-}
 
 pid_t start(const std::vector<std::string>& args) {
     const pid_t pid = ::fork();

@@ -17,33 +17,21 @@
 #include <thread>
 #include <vector>
 
+#include "cli_support.hpp"
+
 namespace fs = std::filesystem;
 using Catch::Matchers::Contains;
+
+using namespace tessera;
 
 namespace {
 
 const std::string tool = TESSERA_BINARY;
-
-struct Scratch {
-    fs::path dir = fs::temp_directory_path() / ("tessera-sweep-test-" + std::to_string(::getpid()));
-    Scratch() {
-        fs::remove_all(dir);
-        fs::create_directories(dir);
-    }
-    ~Scratch() {
-        std::error_code ec;
-        if (!std::getenv("TESSERA_KEEP_TEST_FILES")) fs::remove_all(dir, ec);
-    }
-};
+using clitest::slurp;
 
 fs::path scratch() {
-    static const Scratch s;
-    return s.dir;
-}
-
-std::string slurp(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
+    static const clitest::ScratchDir s("tessera-sweep-test");
+    return s.path();
 }
 
 struct Result {
