@@ -40,6 +40,15 @@ std::string escaped(const std::string& s) {
     return out;
 }
 
+// The decimals a tick step needs to be written exactly (0.25: 2, 5: 0), at most 6.
+int decimals_of(double step) {
+    for (int d = 0; d < 6; ++d) {
+        const double scaled = step * std::pow(10.0, d);
+        if (std::fabs(scaled - std::round(scaled)) < 1e-9 * std::max(1.0, scaled)) return d;
+    }
+    return 6;
+}
+
 // Every how many of `n` category labels to write along `room` pixels, each needing `need`.
 std::size_t label_stride(std::size_t n, double room, double need) {
     if (n == 0 || !(room > 0)) return 1;
@@ -232,7 +241,12 @@ private:
             // Ticks and numbers on the bottom and left edges only, pointing out of the plot;
             // a low panel gets fewer numbers on its y axis so they stay apart.
             const double y_step = p.log_y ? 0.0 : tick_step(p.y_max - p.y_min, b.height() / (2.2 * l_.em));
-            pls_.box("bint", 0.0, 0, p.log_y ? "bintvl" : "bintv", y_step, 0);
+            // PLplot writes the numbers of a step it is given with its own (too few) digits:
+            // 0.25 came out as 0.3. As many decimals as the step needs, then automatic again.
+            pls_.box("bint", 0.0, 0, "", 0.0, 0);
+            if (y_step > 0) pls_.prec(1, decimals_of(y_step));
+            pls_.box("", 0.0, 0, p.log_y ? "bintvl" : "bintv", y_step, 0);
+            pls_.prec(0, 0);
             pls_.box("c", 0.0, 0, "c", 0.0, 0);
         }
         if (!p.title.empty()) {

@@ -2,6 +2,7 @@
 #include <iostream>
 
 #include "cli/commands.hpp"
+#include "cli/render_commands.hpp"
 #include "cli/run_session.hpp"
 #include "cli/scenario_input.hpp"
 
@@ -30,11 +31,23 @@ int demo_command(const DemoOptions& o) {
         std::cout << "tessera demo: " << scenario.title << "\n"
                   << "scenario: " << file.string() << "\n";
     }
-    const int code = run_session(scenario, o.out, {1, o.quiet, true});
+    int code = run_session(scenario, o.out, {1, o.quiet, true});
+    // The figures beside the frames: exponents of every trait, and one panel per habitat.
+    for (const char* what : {"exponents", "habitats"}) {
+        if (code != 0) break;
+        PlotOptions plot;
+        plot.dir = o.out;
+        plot.what = what;
+        plot.quiet = true;
+        code = plot_command(plot);
+    }
     if (code == 0 && !o.quiet) {
         const std::string d = o.out + "/";
         std::cout << "\nWhat to look at:\n"
-                  << "  " << d << "frames/               one picture every 0.2 t/lnK: the dominant trait per patch\n"
+                  << "  " << d << "exponents.png         each trait's exponent over time, the antibiotic pulses shaded\n"
+                  << "  " << d << "habitats.png          the same per habitat: the treated band empties in every pulse and refills\n"
+                  << "  " << d << "frames/               one picture every 0.2 t/lnK: the dominant trait per patch,\n"
+                  << "                                   habitats outlined, the pulse named in the header when on\n"
                   << "  " << d << "series.csv            per-trait totals over time (t and t/lnK)\n"
                   << "  " << d << "habitat_series.csv    the same per habitat (biofilm, poor, treated)\n"
                   << "  " << d << "fields.h5             per-patch counts at every frame (HDF5)\n"

@@ -133,7 +133,7 @@ int plot_command(const PlotOptions& o) {
         std::cerr << "error: " << e.what() << "\n";
         return 2;
     }
-    std::cout << "wrote " << out << "\n";
+    if (!o.quiet) std::cout << "wrote " << out << "\n";
     return 0;
 }
 

@@ -38,6 +38,7 @@ struct PlotOptions {
     std::string size = "1200x750";
     int replicate_lines = 0;
     std::string panels;          // "", "dormancy" or "habitat"
+    bool quiet = false;          // no "wrote FILE" line (the demo lists its files itself)
 };
 
 int render_command(const RenderOptions& options);
