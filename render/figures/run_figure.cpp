@@ -96,7 +96,9 @@ std::vector<Shading> schedule_shading(const Scenario& sc, const Axis& axis, cons
         add("capacity", s.capacity);
         add("resuscitation", s.resuscitation);
         add("permeability", s.permeability);
-        legend = "schedule on: " + s.habitat + (what.empty() ? "" : " " + what);
+        // Its name when it has one ("antibiotic pulse: treated, stress 10").
+        legend = (s.name.empty() ? "schedule on: " + s.habitat : s.name + ": " + s.habitat) +
+                 (what.empty() ? "" : (s.name.empty() ? " " : ", ") + what);
     } else if (!sc.schedules.empty()) {
         legend = "one of " + std::to_string(sc.schedules.size()) + " schedules on";
     }
