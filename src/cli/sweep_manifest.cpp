@@ -7,20 +7,14 @@
 #include <sstream>
 #include <stdexcept>
 
+#include "core/number_text.hpp"
+
 namespace fs = std::filesystem;
 
 namespace tessera::cli {
 
 namespace {
 
-std::string number_text(double v) {
-    char buf[32];  // shortest text that reads back to the same double
-    for (int precision = 6; precision <= 17; ++precision) {
-        std::snprintf(buf, sizeof buf, "%.*g", precision, v);
-        if (std::strtod(buf, nullptr) == v) break;
-    }
-    return buf;
-}
 
 // key=value lines of `file`; repeated keys keep every value in order.
 std::vector<std::pair<std::string, std::string>> read_pairs(const fs::path& file) {
@@ -72,8 +66,8 @@ std::string SweepManifest::to_text() const {
     if (seed) o << "seed=" << *seed << "\n";
     o << "shard=" << shard_index << "/" << shard_count << "\n";
     o << "keep_series=" << (keep_series ? 1 : 0) << "\n";
-    o << "eps=" << number_text(eps) << "\n";
-    o << "final_window=" << number_text(final_window) << "\n";
+    o << "eps=" << shortest_text(eps) << "\n";
+    o << "final_window=" << shortest_text(final_window) << "\n";
     o << "points=" << points << "\n";
     char hex[20];
     std::snprintf(hex, sizeof hex, "%016llx", static_cast<unsigned long long>(checksum));

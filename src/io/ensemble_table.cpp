@@ -13,18 +13,11 @@
 
 namespace fs = std::filesystem;
 
+#include "core/number_text.hpp"
+
 namespace tessera {
 
 namespace {
-
-void append_number(std::string& out, double v) {
-    char buf[32];
-    for (int precision = 6; precision <= 17; ++precision) {
-        std::snprintf(buf, sizeof buf, "%.*g", precision, v);
-        if (std::strtod(buf, nullptr) == v) break;
-    }
-    out += buf;
-}
 
 // One row of series.csv: the texts that are copied, the numbers that are summarised.
 struct SeriesRow {

@@ -5,7 +5,7 @@
 #include <cstdio>
 #include <vector>
 
-#include "io/number_text.hpp"
+#include "core/number_text.hpp"
 
 namespace tessera {
 

@@ -1,6 +1,6 @@
 #include "io/series_writer.hpp"
 
-#include "io/number_text.hpp"
+#include "core/number_text.hpp"
 
 #include <algorithm>
 #include <cmath>

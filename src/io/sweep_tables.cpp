@@ -3,24 +3,11 @@
 #include <cstdio>
 #include <cstdlib>
 
+#include "core/number_text.hpp"
+
 namespace tessera {
 
 namespace {
-
-void append_number(std::string& out, double v) {
-    char buf[32];
-    for (int precision = 6; precision <= 17; ++precision) {
-        std::snprintf(buf, sizeof buf, "%.*g", precision, v);
-        if (std::strtod(buf, nullptr) == v) break;
-    }
-    out += buf;
-}
-
-void append_time(std::string& out, double t) {
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.12g", t);
-    out += buf;
-}
 
 void append_prefix(std::string& out, std::size_t point, const char* source, int replicate) {
     out += std::to_string(point);

@@ -5,6 +5,8 @@
 #include <cstdio>
 #include <cstdlib>
 
+#include "core/number_text.hpp"
+
 namespace tessera {
 
 std::uint64_t point_seed(std::uint64_t base, std::size_t point) {
@@ -20,23 +22,9 @@ double habitable_patches(const Scenario& s) {
     return p;
 }
 
-namespace {
-
-// Shortest text that reads back to the same double (as the series writer spells numbers).
-std::string shortest(double v) {
-    char buf[32];
-    for (int precision = 6; precision <= 17; ++precision) {
-        std::snprintf(buf, sizeof buf, "%.*g", precision, v);
-        if (std::strtod(buf, nullptr) == v) break;
-    }
-    return buf;
-}
-
-}  // namespace
-
 std::vector<std::string> trait_names(const TraitGrid& traits) {
     std::vector<std::string> out;
-    for (int i = 0; i < traits.size(); ++i) out.push_back(shortest(traits.dormancy(i)) + ":" + shortest(traits.transfer(i)));
+    for (int i = 0; i < traits.size(); ++i) out.push_back(shortest_text(traits.dormancy(i)) + ":" + shortest_text(traits.transfer(i)));
     return out;
 }
 

@@ -1,4 +1,4 @@
-#include "io/number_text.hpp"
+#include "core/number_text.hpp"
 
 #include <cstdio>
 #include <cstdlib>
@@ -18,6 +18,12 @@ void append_number(std::string& out, double v) {
         }
     }
     out += buf;
+}
+
+std::string shortest_text(double v) {
+    std::string out;
+    append_number(out, v);
+    return out;
 }
 
 void append_time(std::string& out, double t) {
