@@ -53,24 +53,27 @@ void LeapPatch::choose_fast(double tau) {
     fast_timed_.assign(x_.size(), 0);
     fast_timed_alive_.assign(x_.size(), 0);
     for (const ExactEntry& e : exact_entries_) {
-        if (e.fast) fast_[e.species] = 1;
+        if (e.fast) fast_[e.species] = pending_fast;
     }
 }
 
 // n cells made by a channel of kind `kind` with product `produce` (-1 and a level: a
 // whole-copy conjugation, whose donor traits are drawn over the level's column in proportion
-// to its cells now, by sequential binomials as in try_leap).
-void LeapPatch::add_products(int produce, int level, Kind kind, std::int64_t n, Rng& rng) {
-    if (n <= 0) return;
+// to its cells now, by sequential binomials as in try_leap). Returns how many could not be
+// placed: whole copies from a level that has no cells left (no donor, no event).
+std::int64_t LeapPatch::add_products(int produce, int level, Kind kind, std::int64_t n, Rng& rng) {
+    if (n <= 0) return 0;
     if (produce >= 0) {
-        if (is_fast(produce)) {
+        // Into a fast species still to be drawn: one of its arrivals. Into one drawn already
+        // (a mutant of a later fast species, say): it is there at the end of the leap.
+        if (is_fast(produce) && fast_[produce] == pending_fast) {
             fast_arrivals_[produce] += n;
         } else {
             trial_[produce] += n;
         }
-        return;
+        return 0;
     }
-    if (kind != Kind::conjugation) return;
+    if (kind != Kind::conjugation) return 0;
     std::int64_t cells = 0;
     for (int xl = 0; xl < nx_; ++xl) cells += std::max<std::int64_t>(trial_[grid_.index(xl, level)], 0);
     for (int xl = 0; xl < nx_ && n > 0 && cells > 0; ++xl) {
@@ -83,6 +86,7 @@ void LeapPatch::add_products(int produce, int level, Kind kind, std::int64_t n, 
         n -= m;
         cells -= here;
     }
+    return n;
 }
 
 void LeapPatch::resolve_fast(double tau, Rng& rng, EventCounts& tally_out) {
@@ -105,7 +109,7 @@ void LeapPatch::resolve_fast(double tau, Rng& rng, EventCounts& tally_out) {
                 mass -= m.probability;
                 births -= to;
                 tally(Kind::mutant_birth, to, tally_out);
-                add_products(m.trait, -1, Kind::mutant_birth, to, rng);
+                add_products(m.trait, -1, Kind::mutant_birth, to, rng);  // a trait: always placed
             }
             tally(Kind::birth, births, tally_out);
             fast_arrivals_[k] += births;
@@ -115,18 +119,27 @@ void LeapPatch::resolve_fast(double tau, Rng& rng, EventCounts& tally_out) {
                                     fast_timed_alive_[k];
         std::int64_t left = n0 + arrivals + fast_timed_[k] - stayed;
         trial_[k] = stayed;
+        fast_[k] = drawn_fast;
         ++stats_.fast_resolutions;
-        // The leavers over the consuming channels, in proportion to their rates per cell.
-        double rest = delta;
+        // The leavers over the consuming channels, in proportion to their rates per cell;
+        // the last channel takes what is left, so rounding in the rates loses no cell.
+        leavers_.clear();
         channels_of(k, true, all_levels_.data(), level_at_.data(),
                     [&](double per_cell, bool consumes, int produce, int level, Kind kind) {
-                        if (!consumes || !(per_cell > 0) || left <= 0) return;
-                        const std::int64_t n = per_cell >= rest ? left : binomial(rng, left, per_cell / rest);
-                        rest -= per_cell;
-                        left -= n;
-                        tally(kind, n, tally_out);
-                        add_products(produce, level, kind, n, rng);
+                        if (consumes && per_cell > 0) leavers_.push_back({per_cell, produce, level, kind});
                     });
+        double rest = 0.0;
+        for (const Leaver& c : leavers_) rest += c.per_cell;
+        for (std::size_t j = 0; j < leavers_.size() && left > 0; ++j) {
+            const Leaver& c = leavers_[j];
+            const std::int64_t n =
+                j + 1 == leavers_.size() ? left : binomial(rng, left, std::min(1.0, c.per_cell / rest));
+            rest -= c.per_cell;
+            left -= n;
+            const std::int64_t unplaced = add_products(c.produce, c.level, c.kind, n, rng);
+            trial_[k] += unplaced;  // no donor left to copy: those cells stay as they were
+            tally(c.kind, n - unplaced, tally_out);
+        }
     }
 }
 

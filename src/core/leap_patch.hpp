@@ -177,7 +177,7 @@ private:
     void choose_fast(double tau);
     bool is_fast(int species) const { return fast_.empty() ? false : fast_[species] != 0; }
     void resolve_fast(double tau, Rng& rng, EventCounts& tally);
-    void add_products(int produce, int level, Kind kind, std::int64_t n, Rng& rng);
+    std::int64_t add_products(int produce, int level, Kind kind, std::int64_t n, Rng& rng);
     void tally(Kind kind, std::int64_t k, EventCounts& c) const;
 
     const TraitGrid& grid_;
@@ -216,12 +216,19 @@ private:
     std::vector<std::int32_t> entry_of_;        // species -> its exact entry, or -1
     std::vector<Arrival> arrivals_;
     std::vector<std::pair<std::int32_t, std::int64_t>> late_;  // floods into small species
-    std::vector<std::uint8_t> fast_;            // species -> fast in this leap (empty: none)
+    std::vector<std::uint8_t> fast_;            // species -> 0, pending_fast or drawn_fast (empty: none fast)
+    static constexpr std::uint8_t pending_fast = 1, drawn_fast = 2;
     std::vector<std::pair<double, double>> fast_candidates_;  // step_size: (leave rate, exact rate)
     std::vector<std::int64_t> fast_arrivals_;   // cells placed in a fast species at uniform times
     std::vector<double> fast_exposure_;         // sum of (1 - e^{-delta (tau - t)}) over timed arrivals
     std::vector<std::int64_t> fast_timed_;      // cells placed in it at known times (exact part)
     std::vector<std::int64_t> fast_timed_alive_; // of those, survivors drawn one by one
+    struct Leaver {                             // a consuming channel of a fast species
+        double per_cell;
+        int produce, level;
+        Kind kind;
+    };
+    std::vector<Leaver> leavers_;
     std::vector<double> entry_rate_;            // work space of simulate_exact
     double exact_total_ = 0.0;                  // their sum
     std::vector<double> live_level_;            // L_l during simulate_exact
