@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <functional>
 
 namespace tessera {
 
@@ -41,14 +42,10 @@ bool integrate_until(const DeterministicOde& ode, State& y, double& time, std::s
     namespace odeint = boost::numeric::odeint;
     auto stepper = odeint::make_controlled<odeint::runge_kutta_dopri5<State>>(s.integration_abs_tolerance,
                                                                               s.integration_rel_tolerance);
-    // The right-hand side sees the state cut at 0: an intermediate stage may overshoot below
-    // 0, where the model means nothing (and tau / n blows up as n passes 0).
-    State cut;
-    auto system = [&ode, &cut](const State& x, State& dxdt, double t) {
-        cut.resize(x.size());
-        for (std::size_t c = 0; c < x.size(); ++c) cut[c] = std::max(x[c], 0.0);
-        ode(cut, dxdt, t);
-    };
+    // An intermediate stage may overshoot below 0, where the model means nothing (tau / n
+    // blows up as n passes 0): DeterministicOde takes its rates at the densities clipped at
+    // 0 (one patch: no migration term reads them unclipped), so it is integrated as it is.
+    const auto system = std::cref(ode);
     double chunk = 1.0;
     for (;;) {
         if (done(y)) return true;
@@ -160,14 +157,10 @@ RayResult settle_ray(const DeterministicOde& ode, std::vector<double> start, con
     if (!normalise()) return r;
     auto stepper = odeint::make_controlled<odeint::runge_kutta_dopri5<State>>(settings.integration_abs_tolerance,
                                                                               settings.integration_rel_tolerance);
-    // The right-hand side sees the state cut at 0: an intermediate stage may overshoot below
-    // 0, where the model means nothing (and tau / n blows up as n passes 0).
-    State cut;
-    auto system = [&ode, &cut](const State& x, State& dxdt, double t) {
-        cut.resize(x.size());
-        for (std::size_t c = 0; c < x.size(); ++c) cut[c] = std::max(x[c], 0.0);
-        ode(cut, dxdt, t);
-    };
+    // An intermediate stage may overshoot below 0, where the model means nothing (tau / n
+    // blows up as n passes 0): DeterministicOde takes its rates at the densities clipped at
+    // 0 (one patch: no migration term reads them unclipped), so it is integrated as it is.
+    const auto system = std::cref(ode);
     for (;;) {
         ode(y, f, 0.0);
         double total = 0.0, sum = 0.0;
