@@ -4,7 +4,7 @@
 #include <chrono>
 #include <cmath>
 
-#include "render/exponent_scale.hpp"
+#include "core/exponent_scale.hpp"
 
 namespace tessera {
 

@@ -3,7 +3,7 @@
 #include <exception>
 #include <iostream>
 
-#include "render/exponent_scale.hpp"
+#include "core/exponent_scale.hpp"
 #include "theory/count_model.hpp"
 
 namespace tessera {

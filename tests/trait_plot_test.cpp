@@ -9,7 +9,7 @@
 #include <cstdlib>
 #include <vector>
 
-#include "render/exponent_scale.hpp"
+#include "core/exponent_scale.hpp"
 #include "render/trait_palette.hpp"
 #include "render/trait_plot.hpp"
 #include "render/typeface.hpp"

@@ -6,7 +6,7 @@
 #include "core/trait_grid.hpp"
 #include "io/csv_table.hpp"
 #include "io/scenario_loader.hpp"
-#include "render/exponent_scale.hpp"
+#include "core/exponent_scale.hpp"
 
 namespace fs = std::filesystem;
 

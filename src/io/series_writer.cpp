@@ -1,10 +1,11 @@
 #include "io/series_writer.hpp"
 
-#include "core/number_text.hpp"
-
 #include <algorithm>
 #include <cmath>
 #include <vector>
+
+#include "core/exponent_scale.hpp"
+#include "core/number_text.hpp"
 
 namespace tessera {
 
@@ -16,11 +17,7 @@ std::string habitat_series_header() {
 }
 
 double habitable_patches(const Scenario& scenario, int habitat_class) {
-    double P = 0.0;
-    for (std::uint16_t c : scenario.habitat_of_patch) {
-        if (habitat_class < 0 || c == habitat_class) P += std::max(0.0, scenario.habitats[c].capacity);
-    }
-    return P;
+    return capacity_weighted_patches(scenario, habitat_class);
 }
 
 namespace {

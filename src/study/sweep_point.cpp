@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <cstdlib>
 
+#include "core/exponent_scale.hpp"
 #include "core/number_text.hpp"
 
 namespace tessera {
@@ -16,11 +17,7 @@ std::uint64_t point_seed(std::uint64_t base, std::size_t point) {
     return z ^ (z >> 31);
 }
 
-double habitable_patches(const Scenario& s) {
-    double p = 0.0;
-    for (std::uint16_t c : s.habitat_of_patch) p += s.habitats[c].capacity;
-    return p;
-}
+double habitable_patches(const Scenario& s) { return capacity_weighted_patches(s); }
 
 std::vector<std::string> trait_names(const TraitGrid& traits) {
     std::vector<std::string> out;

@@ -1,4 +1,4 @@
-#include "render/exponent_scale.hpp"
+#include "core/exponent_scale.hpp"
 
 #include <cmath>
 

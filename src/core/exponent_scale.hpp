@@ -2,7 +2,8 @@
 // of habitable patches weighted by their capacity (sum of K_p / K). A trait at carrying
 // capacity everywhere is at 1, a single cell on the lattice at about 0, and on one patch it
 // is the usual log(1 + N) / log K. Used where the per-patch column of series.csv is not at
-// hand: the viewer's live plot and figures of files written before that column existed.
+// hand (the viewer's live plot, figures of files written before that column existed), and the
+// P of that column itself (series_writer), of sweeps and of ensembles: one definition for all.
 #pragma once
 
 #include "core/scenario.hpp"
