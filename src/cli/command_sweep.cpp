@@ -9,6 +9,7 @@
 #include "cli/sweep_grid.hpp"
 #include "cli/sweep_manifest.hpp"
 #include "cli/sweep_runner.hpp"
+#include "cluster/cluster.hpp"
 #include "theory/exponent_limit.hpp"
 
 namespace fs = std::filesystem;
@@ -40,6 +41,11 @@ int sweep_command(const SweepOptions& o) {
     if (!o.merge.empty()) {
         if (!o.scenario.empty() || !o.vary.empty()) {
             std::cerr << "error: --merge joins finished shards; it takes no SCENARIO and no --vary\n";
+            return 2;
+        }
+        if (cluster::size() > 1) {
+            std::cerr << "error: --merge only joins files, so it does not run under an MPI launcher ("
+                      << cluster::size() << " ranks): run it as one plain process, without mpirun\n";
             return 2;
         }
         return merge_sweeps(o.merge, o.out, o.overwrite, o.quiet);
@@ -105,12 +111,14 @@ int sweep_command(const SweepOptions& o) {
     }
 
     const fs::path dir(o.out);
-    if (!prepare_directory(dir, o.overwrite, sweep_markers)) return 2;
-    std::error_code rm;
-    fs::remove_all(dir / "points", rm);  // an overwritten sweep's kept series
-    if (!write_manifest(dir / manifest_name, m)) {
-        std::cerr << "error: cannot write " << (dir / manifest_name).string() << "\n";
-        return 2;
+    if (cluster::rank() == 0) {  // only rank 0 writes files
+        if (!prepare_directory(dir, o.overwrite, sweep_markers)) return sweep_start_failed(2);
+        std::error_code rm;
+        fs::remove_all(dir / "points", rm);  // an overwritten sweep's kept series
+        if (!write_manifest(dir / manifest_name, m)) {
+            std::cerr << "error: cannot write " << (dir / manifest_name).string() << "\n";
+            return sweep_start_failed(2);
+        }
     }
     return run_sweep(*loaded, m, dir, {o.threads.value_or(0), o.quiet, false});
 }

@@ -20,7 +20,10 @@
 
 #include "cli/output_directory.hpp"
 #include "cli/progress.hpp"
+#include "cli/sweep_ranks.hpp"
 #include "cli/sweep_report.hpp"
+#include "cli/sweep_task.hpp"
+#include "cluster/cluster.hpp"
 #include "core/count_limit.hpp"
 #include "core/parallel.hpp"
 #include "core/trait_grid.hpp"
@@ -85,14 +88,6 @@ private:
     std::FILE* handle_ = nullptr;
 };
 
-// The full series of a replicate, as series.csv holds it (--keep-series).
-struct SeriesText : Observer {
-    std::string text;
-    void observe(const Engine& engine, unsigned kinds) override {
-        if (kinds & series_output) append_series_rows(engine, text);
-    }
-};
-
 struct PointSlot {
     std::atomic<int> remaining{0};
     std::atomic<int> done{0};
@@ -109,6 +104,26 @@ std::string point_folder(std::size_t point) {
     return buf;
 }
 
+// The end of a run: the table of a finished sweep, or what stopped it and how to continue.
+int finish_report(const fs::path& dir, const ParameterGrid& grid, const std::string& failure, std::size_t first,
+                  std::size_t written, std::size_t count, std::size_t points, bool quiet) {
+    if (!failure.empty()) {
+        std::cerr << "error: " << failure << "\n";
+        if (written > 0 || first > 0)
+            std::cerr << "the " << first + written << " points written so far are kept in " << dir.string() << "/\n";
+        return 2;
+    }
+    if (written == count) {
+        if (!quiet) print_sweep_report(dir, grid, std::cout);
+        return 0;
+    }
+    const int signal = stop_signal.load();
+    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : "SIGINT") << ") after " << first + written
+              << " of " << points << " points; their rows are in " << dir.string()
+              << "/\ncontinue with: tessera resume " << dir.string() << "\n";
+    return 128 + (signal ? signal : SIGINT);
+}
+
 }  // namespace
 
 std::vector<std::size_t> shard_points(std::size_t points, int shard_index, int shard_count) {
@@ -118,7 +133,31 @@ std::vector<std::size_t> shard_points(std::size_t points, int shard_index, int s
     return out;
 }
 
+int sweep_start_failed(int code) {
+    if (cluster::size() > 1) {
+        long long start[2] = {code, 0};
+        cluster::share_from_rank0(start, 2);
+    }
+    return code;
+}
+
 int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& dir, const SweepRunOptions& options) {
+    const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
+    if (cluster::size() > 1 && cluster::rank() != 0) {
+        long long start[2] = {-1, 0};  // rank 0's go (-1) or exit code, and the first point to run
+        cluster::share_from_rank0(start, 2);
+        if (start[0] >= 0) return static_cast<int>(start[0]);
+        tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
+        stop_requested = false;
+        stop_signal = 0;
+        std::signal(SIGINT, on_sweep_interrupt);
+        std::signal(SIGTERM, on_sweep_interrupt);
+        const int code = follow_sweep(make_sweep_work(loaded, m, static_cast<std::size_t>(start[1])), threads,
+                                      {&stop_requested, &stop_signal});
+        std::signal(SIGINT, SIG_DFL);
+        std::signal(SIGTERM, SIG_DFL);
+        return code;
+    }
     const std::vector<std::size_t> mine = shard_points(loaded.grid.size(), m.shard_index, m.shard_count);
     SweepState state;
     if (options.resume) {
@@ -126,22 +165,22 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
             state = read_state(dir / state_name);
         } catch (const std::runtime_error& e) {
             std::cerr << "error: " << e.what() << "\n";
-            return 2;
+            return sweep_start_failed(2);
         }
         if (state.points_done > mine.size()) {
             std::cerr << "error: " << (dir / state_name).string() << ": records more points than the sweep has\n";
-            return 2;
+            return sweep_start_failed(2);
         }
         if (state.points_done == mine.size()) {
             if (!options.quiet) std::cout << dir.string() << ": the sweep is already finished; nothing to resume\n";
-            return 0;
+            return sweep_start_failed(0);
         }
     } else {
         std::string points = points_header(loaded.grid);
         for (std::size_t i : mine) points += points_row(loaded.grid, i);
         if (!write_text(dir / "points.csv", points)) {
             std::cerr << "error: cannot write " << (dir / "points.csv").string() << "\n";
-            return 2;
+            return sweep_start_failed(2);
         }
     }
 
@@ -149,39 +188,36 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
     if (!outcomes.open(options.resume, outcomes_header(), state.outcomes_bytes) ||
         !finals.open(options.resume, final_exponents_header(), state.final_exponents_bytes) ||
         !summary.open(options.resume, summary_header(), state.summary_bytes))
-        return 2;
+        return sweep_start_failed(2);
     if (!options.resume) {
         state.outcomes_bytes = outcomes.bytes();
         state.final_exponents_bytes = finals.bytes();
         state.summary_bytes = summary.bytes();
         if (!write_state(dir / state_name, state)) {
             std::cerr << "error: cannot write " << (dir / state_name).string() << "\n";
-            return 2;
+            return sweep_start_failed(2);
         }
     }
 
     // This run's points: [first, mine.size()) of the shard.
     const std::size_t first = state.points_done;
-    const std::size_t count = mine.size() - first;
-    const int per_point = (m.with_limit ? 1 : 0) + (m.with_run ? m.replicates : 0);
-    const std::size_t items = count * static_cast<std::size_t>(per_point);
+    if (cluster::size() > 1) {  // the other ranks start
+        long long start[2] = {-1, static_cast<long long>(first)};
+        cluster::share_from_rank0(start, 2);
+    }
+    const SweepWork work = make_sweep_work(loaded, m, first);
+    const std::size_t count = work.points.size();
+    const int per_point = work.per_point;
+    const std::size_t items = work.items();
+    const std::vector<Scenario>& scenarios = work.scenarios;
     std::vector<std::unique_ptr<PointSlot>> slots(count);
-    std::vector<Scenario> scenarios(count);
     for (std::size_t k = 0; k < count; ++k) {
         slots[k] = std::make_unique<PointSlot>();
         slots[k]->remaining = per_point;
         slots[k]->runs.resize(m.with_run ? static_cast<std::size_t>(m.replicates) : 0);
         if (m.keep_series) slots[k]->series.resize(slots[k]->runs.size());
-        const std::size_t i = mine[first + k];
-        scenarios[k] = loaded.scenarios[i];
-        scenarios[k].seed = point_seed(m.seed.value_or(scenarios[k].seed), i);
     }
 
-    RegimeSettings regimes;
-    regimes.eps = m.eps;
-    regimes.final_window = m.final_window;
-
-    const int threads = options.threads > 0 ? options.threads : tbb::info::default_concurrency();
     tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
     stop_requested = false;
     stop_signal = 0;
@@ -262,50 +298,66 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
         }
     };
 
-    tessera::parallel_for(0, threads, [&](int) {
-        for (;;) {
-            const std::size_t item = next_item.fetch_add(1);
-            if (item >= items || stop_requested) return;
-            const std::size_t k = item / static_cast<std::size_t>(per_point);
-            const int j = static_cast<int>(item % static_cast<std::size_t>(per_point)) - (m.with_limit ? 1 : 0);
-            PointSlot& slot = *slots[k];
-            try {
-                if (j < 0) {
-                    slot.limit = limit_point(scenarios[k], regimes);
-                } else {
-                    SeriesText text;
-                    auto r = run_replicate(scenarios[k], j, regimes, &stop_requested, m.keep_series ? &text : nullptr);
-                    if (!r) {
-                        slot.failed = true;
-                        continue;
-                    }
-                    slot.runs[static_cast<std::size_t>(j)] = std::move(r);
-                    if (m.keep_series) slot.series[static_cast<std::size_t>(j)] = std::move(text.text);
-                }
-            } catch (const std::exception& e) {
-                slot.failed = true;
-                std::lock_guard lock(writer);
-                if (failure.empty()) {
+    // One task's outcome, from this process's threads or (under MPI) from another rank.
+    auto deliver = [&](TaskOutcome&& o) {
+        if (!o.error.empty()) {
+            std::lock_guard lock(writer);
+            if (o.item < items) slots[work.point_of(o.item)]->failed = true;
+            if (failure.empty()) {
+                if (o.item < items) {
+                    const std::size_t i = work.points[work.point_of(o.item)];
                     std::string where;
-                    for (const std::string& a : loaded.grid.overrides(mine[first + k])) where += " " + a;
-                    failure = "sweep point " + std::to_string(mine[first + k]) + " (" + where.substr(1) + "): " + e.what();
+                    for (const std::string& a : loaded.grid.overrides(i)) where += " " + a;
+                    failure = "sweep point " + std::to_string(i) + " (" + where.substr(1) + "): " + o.error;
+                } else {
+                    failure = o.error;
                 }
-                stop_requested = true;
-                continue;
             }
-            progress.report(static_cast<int>(k), static_cast<double>(slot.done.fetch_add(1) + 1) / per_point);
-            if (slot.remaining.fetch_sub(1) == 1 && !slot.failed) {
-                std::lock_guard lock(writer);
-                slot.ready = true;
-                try {
-                    drain();
-                } catch (const std::exception& e) {
-                    if (failure.empty()) failure = e.what();
-                    stop_requested = true;
-                }
+            stop_requested = true;
+            return;
+        }
+        const std::size_t k = work.point_of(o.item);
+        const int j = work.replicate_of(o.item);
+        PointSlot& slot = *slots[k];
+        if (!o.result) {  // stopped before its end
+            slot.failed = true;
+            return;
+        }
+        if (j < 0) {
+            slot.limit = std::move(o.result);
+        } else {
+            slot.runs[static_cast<std::size_t>(j)] = std::move(o.result);
+            if (m.keep_series) slot.series[static_cast<std::size_t>(j)] = std::move(o.series);
+        }
+        progress.report(static_cast<int>(k), static_cast<double>(slot.done.fetch_add(1) + 1) / per_point);
+        if (slot.remaining.fetch_sub(1) == 1 && !slot.failed) {
+            std::lock_guard lock(writer);
+            slot.ready = true;
+            try {
+                drain();
+            } catch (const std::exception& e) {
+                if (failure.empty()) failure = e.what();
+                stop_requested = true;
             }
         }
-    });
+    };
+    // This process's threads, taking tasks in order from next_item.
+    auto local = [&] {
+        tessera::parallel_for(0, threads, [&](int) {
+            for (;;) {
+                const std::size_t item = next_item.fetch_add(1);
+                if (item >= items || stop_requested) return;
+                deliver(run_sweep_task(work, item, &stop_requested));
+            }
+        });
+    };
+    std::optional<SweepLead> lead;
+    if (cluster::size() > 1) {
+        lead.emplace();
+        lead->run(items, next_item, local, deliver, {&stop_requested, &stop_signal});
+    } else {
+        local();
+    }
     progress.finish();
     try {
         outcomes.sync();
@@ -321,21 +373,9 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
     std::signal(SIGINT, SIG_DFL);
     std::signal(SIGTERM, SIG_DFL);
 
-    if (!failure.empty()) {
-        std::cerr << "error: " << failure << "\n";
-        if (next_to_write > 0 || first > 0)
-            std::cerr << "the " << first + next_to_write << " points written so far are kept in " << dir.string() << "/\n";
-        return 2;
-    }
-    if (next_to_write == count) {
-        if (!options.quiet) print_sweep_report(dir, loaded.grid, std::cout);
-        return 0;
-    }
-    const int signal = stop_signal.load();
-    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : "SIGINT") << ") after " << first + next_to_write
-              << " of " << mine.size() << " points; their rows are in " << dir.string()
-              << "/\ncontinue with: tessera resume " << dir.string() << "\n";
-    return 128 + (signal ? signal : SIGINT);
+    const int code = finish_report(dir, loaded.grid, failure, first, next_to_write, count, mine.size(), options.quiet);
+    if (lead) lead->end(code);
+    return code;
 }
 
 }  // namespace tessera::cli

@@ -7,6 +7,9 @@
 // records it. So the tables of a stopped sweep are always a prefix of the finished sweep's,
 // and the bytes never depend on the thread count or the shard split.
 //
+// Under an MPI launcher every rank calls run_sweep: the tasks are shared out over the ranks
+// (sweep_ranks.hpp) and rank 0 alone writes, the same bytes.
+//
 // Ctrl-C (or SIGTERM) stops the running points after their current step; the written points
 // stay, exit code 130 (143); `tessera resume DIR` continues. A second Ctrl-C leaves at once
 // (the state file is only ever replaced by rename, so the directory still resumes).
@@ -30,6 +33,10 @@ struct SweepRunOptions {
 // if Ctrl-C came right after its k-th written point (tests/sweep_cli_test.cpp).
 int run_sweep(const LoadedGrid& grid, const SweepManifest& manifest, const std::filesystem::path& dir,
               const SweepRunOptions& options);
+
+// Under MPI, rank 0 tells the other ranks (waiting in run_sweep) that the sweep does not
+// start, and why (`code`); returns `code`. Without MPI, just `code`.
+int sweep_start_failed(int code);
 
 // The points of shard I/N: every point i with i % N == I - 1, in order.
 std::vector<std::size_t> shard_points(std::size_t points, int shard_index, int shard_count);
