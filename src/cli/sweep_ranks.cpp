@@ -1,5 +1,6 @@
 #include "cli/sweep_ranks.hpp"
 
+#include <algorithm>
 #include <chrono>
 #include <condition_variable>
 #include <cstdint>
@@ -25,9 +26,21 @@ constexpr char finished = 'F';  // rank -> 0: i32 the signal it had (0: none); i
 constexpr char stop_now = 'S';  // 0 -> rank: stop after the current steps
 constexpr char end_code = 'E';  // 0 -> rank: i32 the exit code; the last message of all
 
-// Idle ranks look for messages this often: short beside any task, long enough not to take
-// a core from the threads running tasks.
-constexpr auto idle_nap = std::chrono::microseconds(200);
+// Between looks for messages an idle main thread naps, from 50 us doubling up to 2 ms while
+// nothing comes: soon after a message another often follows (an answer, the next outcome);
+// in a long quiet spell each look costs MPI's progress engine a few microseconds, so 2 ms
+// keeps the looking under 1 % of a core, and is still short beside any run.
+class IdleNap {
+public:
+    void operator()() {
+        std::this_thread::sleep_for(std::chrono::microseconds(us_));
+        us_ = std::min(us_ * 2, 2000);
+    }
+    void reset() { us_ = 50; }
+
+private:
+    int us_ = 50;
+};
 
 template <class T>
 void put(std::string& bytes, T value) {
@@ -53,6 +66,7 @@ void SweepLead::run(std::size_t items, std::atomic<std::size_t>& next_item, cons
     });
     int unfinished = cluster::size() - 1;
     bool stop_sent = false;
+    IdleNap nap;
     while (unfinished > 0 || !local_done) {
         if (*stop.requested && !stop_sent) {
             for (int q = 1; q < cluster::size(); ++q) link_.send(q, std::string(1, stop_now));
@@ -60,9 +74,10 @@ void SweepLead::run(std::size_t items, std::atomic<std::size_t>& next_item, cons
         }
         auto message = link_.poll();
         if (!message) {
-            std::this_thread::sleep_for(idle_nap);
+            nap();
             continue;
         }
+        nap.reset();
         const std::string& m = message->bytes;
         try {
             if (m.empty()) throw std::runtime_error("an empty message between the sweep's ranks");
@@ -140,6 +155,7 @@ int follow_sweep(const SweepWork& work, int threads, SweepStop stop) {
     std::size_t held = 0;
     bool asking = false;
     bool told_stop = false;
+    IdleNap nap;
     for (;;) {
         const bool last = done;  // read before the outbox: nothing is added after it
         std::vector<TaskOutcome> out;
@@ -149,6 +165,7 @@ int follow_sweep(const SweepWork& work, int threads, SweepStop stop) {
         }
         for (const TaskOutcome& o : out) link.send(0, std::string(1, outcome) + encode_task_outcome(o));
         held -= std::min(held, out.size());
+        if (!out.empty()) nap.reset();
         if (last) break;
         if (*stop.requested && !told_stop) {
             std::lock_guard lock(mutex);
@@ -168,9 +185,10 @@ int follow_sweep(const SweepWork& work, int threads, SweepStop stop) {
         }
         auto message = link.poll();
         if (!message) {
-            std::this_thread::sleep_for(idle_nap);
+            nap();
             continue;
         }
+        nap.reset();
         const std::string& m = message->bytes;
         if (m.empty()) continue;
         if (m[0] == tasks) {
@@ -194,7 +212,7 @@ int follow_sweep(const SweepWork& work, int threads, SweepStop stop) {
     for (;;) {
         auto message = link.poll();
         if (!message) {
-            std::this_thread::sleep_for(idle_nap);
+            nap();
             continue;
         }
         if (!message->bytes.empty() && message->bytes[0] == end_code) {
