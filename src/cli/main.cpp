@@ -88,7 +88,8 @@ int main(int argc, char** argv) {
         "      --replicates 8 --out p-sweep\n"
         "writes points.csv, outcomes.csv (one row per replicate), final_exponents.csv and summary.csv\n"
         "(fractions per regime and per resident trait, with Wilson 95% intervals) as points finish.\n"
-        "Ctrl-C keeps the finished points; 'tessera resume DIR' continues.");
+        "Ctrl-C keeps the finished points; 'tessera resume DIR' continues. Under mpirun the\n"
+        "points and replicates are shared over the ranks and rank 0 writes the same files.");
     sweep_cmd->add_option("scenario", sweep.scenario, "Scenario file (TOML)");
     sweep_cmd->add_option("--vary", sweep.vary, "An axis: KEY=FROM:TO:N, KEY=log:FROM:TO:N or KEY=v1,v2,... (repeatable)")
         ->type_name("KEY=VALUES");

@@ -37,6 +37,7 @@ struct TaskLink::State {
     std::vector<char> watched;              // by rank
     std::vector<Clock::time_point> heard;   // by rank
     Clock::time_point last_beat;
+    Clock::time_point last_poll;
     std::list<Outgoing> outgoing;           // kept until MPI is done with the buffer
     char beat_byte = 0;
 
@@ -74,6 +75,7 @@ TaskLink::TaskLink(std::string what) : state_(std::make_unique<State>()) {
     for (int q : s.partners) s.watched[static_cast<std::size_t>(q)] = 1;
     s.heard.assign(static_cast<std::size_t>(s.size), Clock::now());
     s.last_beat = Clock::now() - s.beat_every();
+    s.last_poll = Clock::now();
 }
 
 TaskLink::~TaskLink() {
@@ -99,6 +101,11 @@ std::optional<LinkMessage> TaskLink::poll() {
     State& s = *state_;
     if (s.closed) return std::nullopt;
     const auto now = Clock::now();
+    // A long gap since our own last look means this rank was the one not running (stopped,
+    // or starved of a core): the partners' silence meanwhile says nothing about them.
+    if (std::chrono::duration<double>(now - s.last_poll).count() > rank_timeout() / 2)
+        for (auto& t : s.heard) t = now;
+    s.last_poll = now;
     if (now - s.last_beat >= s.beat_every()) {
         for (int q : s.partners) {
             s.outgoing.push_back({std::string(), MPI_REQUEST_NULL});
