@@ -237,7 +237,9 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
 
     // Writes every ready point at the head of the buffer (caller holds `writer`).
     auto drain = [&]() {
-        while (next_to_write < count && slots[next_to_write]->ready) {
+        // The test hook stops the writing itself at its k-th point, so that the stopped
+        // tables do not depend on which later points happened to be finished by then.
+        while (next_to_write < count && slots[next_to_write]->ready && (stop_after == 0 || next_to_write < stop_after)) {
             PointSlot& slot = *slots[next_to_write];
             const std::size_t i = mine[first + next_to_write];
             const Scenario& s = scenarios[next_to_write];
