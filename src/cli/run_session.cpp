@@ -150,9 +150,10 @@ std::string cluster_refusal(const Scenario& scenario) {
     return {};
 }
 
-void attach_partition(Engine& engine, std::unique_ptr<LatticePartition>& partition, const Scenario& scenario) {
-    partition = cluster::lattice_partition(scenario.height, scenario.boundary == Boundary::periodic);
-    engine.set_partition(partition.get());
+// The bands of a run over the ranks (nothing for a plain process); the Engine takes it at
+// construction, so that a rank other than 0 never holds more than its band.
+std::unique_ptr<LatticePartition> partition_of(const Scenario& scenario) {
+    return cluster::lattice_partition(scenario.height, scenario.boundary == Boundary::periodic);
 }
 
 int follow(const Scenario& scenario, const Checkpoint* from, const SessionOptions& options) {
@@ -166,11 +167,10 @@ int follow(const Scenario& scenario, const Checkpoint* from, const SessionOption
     for (int r = 0; r < R; ++r) {
         const ReplicateCheckpoint* begin = from ? &from->replicates[static_cast<std::size_t>(r)] : nullptr;
         if (begin && begin->stage == Stage::finished) continue;
-        Engine engine(scenario, static_cast<std::uint32_t>(r));
+        const std::unique_ptr<LatticePartition> partition = partition_of(scenario);
+        Engine engine(scenario, static_cast<std::uint32_t>(r), partition.get());
         const bool resumed = begin && begin->stage == Stage::running;
         if (resumed) engine.restore(begin->state);  // rank 0 reports a checkpoint that does not fit
-        std::unique_ptr<LatticePartition> partition;
-        attach_partition(engine, partition, scenario);
         NoOutputs none;
         try {
             engine.run(none, &interrupted, resumed);
@@ -261,7 +261,8 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
             return;
         }
         try {
-            Engine engine(scenario, static_cast<std::uint32_t>(r));
+            const std::unique_ptr<LatticePartition> partition = partition_of(scenario);
+            Engine engine(scenario, static_cast<std::uint32_t>(r), partition.get());
             const bool resumed = begin.stage == Stage::running;
             if (resumed) {
                 try {
@@ -271,8 +272,6 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
                                              ": " + e.what() + "; the file cannot be used");
                 }
             }
-            std::unique_ptr<LatticePartition> partition;
-            attach_partition(engine, partition, scenario);
             std::unique_ptr<FieldsWriter> fields;
             if (scenario.fields_every > 0) {
                 const std::string path = (dir / fields_name(r)).string();
