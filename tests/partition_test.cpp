@@ -80,7 +80,7 @@ public:
     void move_rows(const std::uint64_t* before, std::uint64_t* after, std::size_t per_row) override {
         publish(const_cast<std::uint64_t*>(before));
         const RowBand mine = band();
-        for (int row = mine.first; row < mine.end; ++row) {
+        for (int row = mine.first; before && row < mine.end; ++row) {
             const int q = band_of_row(before_, row);
             const auto* from = static_cast<const std::uint64_t*>(g_.slot[static_cast<std::size_t>(q)]) +
                                static_cast<std::size_t>(row - before_[static_cast<std::size_t>(q)]) * per_row;

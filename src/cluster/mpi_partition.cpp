@@ -90,6 +90,7 @@ void MpiPartition::gather_rows(std::uint64_t* data, std::size_t values_per_row) 
 
 // The rows of (old band of a) and (new band of b) overlap in one run of rows at most.
 void MpiPartition::move_rows(const std::uint64_t* before, std::uint64_t* after, std::size_t values_per_row) {
+    if (!before) return;  // this band did not change: no rows come or go
     constexpr int tag = 30000;  // apart from the exchange's tags (positions in a halo list), below MPI's least MPI_TAG_UB
     const auto overlap = [&](int a, int b) {
         const int first = std::max(start_before_[static_cast<std::size_t>(a)], start_[static_cast<std::size_t>(b)]);

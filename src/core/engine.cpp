@@ -337,6 +337,12 @@ void Engine::migration_phase(double dt) {
     }
 }
 
+void Engine::release_step_buffers() {
+    Scratch& s = *scratch_;
+    for (auto* books : {&s.lost_per_patch, &s.sent_per_patch, &s.received_per_patch}) *books = {};
+    s.outbox = {};
+}
+
 // --- checkpoints --------------------------------------------------------------------------
 Engine::State Engine::state() const {
     if (!lattice_.whole())

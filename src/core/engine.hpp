@@ -129,6 +129,7 @@ private:
     void rebalance();                                 // new bands, and the rows moved to them
     void start_partition();                           // the first bands, from the counts held
     void move_band(RowBand old);                      // this band's rows to its new owner
+    void release_step_buffers();                      // migrant boxes and books, until the next step
     static Lattice held_lattice(const Scenario& scenario, int traits, LatticePartition* partition);
     void step(double dt);
     void local_phase(double dt);

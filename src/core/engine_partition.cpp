@@ -118,14 +118,22 @@ void Engine::rebalance() {
     move_band(old);
 }
 
-// Every process takes part (a band that kept its rows sends and receives none). Each row
+// Every process takes part; a band that kept its rows sends and receives none, and packs
+// nothing. Each row
 // travels as its patches' counts, event counts and event counts at the last balance,
-// [patch][2 T + counters + 1].
+// [patch][2 T + counters + 1]. On a process holding its band only, the old band's storage
+// and the migrant boxes (rebuilt by the next step) go before the new band's comes, so that
+// a move needs no more memory than a step: the packed old band, then the packed new one.
 void Engine::move_band(RowBand old) {
     const bool changed = old.first != band_.first || old.end != band_.end;
     const std::size_t W = static_cast<std::size_t>(lattice_.width());
     const std::size_t T = static_cast<std::size_t>(lattice_.traits());
     const std::size_t per_patch = 2 * T + counters + 1;
+    if (!changed) {
+        partition_->move_rows(nullptr, nullptr, W * per_patch);
+        return;
+    }
+    const bool rehold = !lattice_.whole();
     const std::size_t held = lattice_.first_patch();
     std::vector<std::uint64_t> before(static_cast<std::size_t>(old.end - old.first) * W * per_patch);
     for (std::size_t p = old.first * W, k = 0; p < old.end * W; ++p, k += per_patch) {
@@ -134,14 +142,20 @@ void Engine::move_band(RowBand old) {
         std::copy_n(reinterpret_cast<const std::uint64_t*>(&patch_counts_[p - held]), counters, &before[k + 2 * T]);
         before[k + 2 * T + counters] = events_at_balance_[p - held];
     }
-    if (changed && !lattice_.whole()) {  // the old band's storage goes, the new band's comes
-        lattice_.hold_rows(band_.first, band_.end);
-        patch_counts_ = std::vector<EventCounts>(lattice_.held_patches());
-        events_at_balance_ = std::vector<std::uint64_t>(lattice_.held_patches());
+    if (rehold) {
+        lattice_.hold_rows(band_.first, band_.first);
+        patch_counts_ = {};
+        events_at_balance_ = {};
+        release_step_buffers();
     }
     std::vector<std::uint64_t> after(static_cast<std::size_t>(band_.end - band_.first) * W * per_patch);
     partition_->move_rows(before.data(), after.data(), W * per_patch);
     before = {};
+    if (rehold) {
+        lattice_.hold_rows(band_.first, band_.end);
+        patch_counts_ = std::vector<EventCounts>(lattice_.held_patches());
+        events_at_balance_ = std::vector<std::uint64_t>(lattice_.held_patches());
+    }
     const std::size_t now = lattice_.first_patch();
     for (std::size_t p = band_.first * W, k = 0; p < band_.end * W; ++p, k += per_patch) {
         std::copy_n(&after[k], T, reinterpret_cast<std::uint64_t*>(lattice_.active(p)));

@@ -54,6 +54,7 @@ public:
     virtual void gather_rows(std::uint64_t* data, std::size_t values_per_row) = 0;
     // After rebalance(), on every process: `before` holds this process's rows of the bands before it, `after`
     // receives the rows of its new band (kept ones copied, the others from their old owners).
+    // A process whose band did not change passes nullptr for both (it sends and gets nothing).
     virtual void move_rows(const std::uint64_t* before, std::uint64_t* after, std::size_t values_per_row) = 0;
     // Sums `values` over the processes, in place.
     virtual void sum(std::uint64_t* values, int count) = 0;

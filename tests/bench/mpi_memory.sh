@@ -1,8 +1,8 @@
 #!/usr/bin/env bash
 # Peak memory of each MPI rank against a plain process (docs/performance.md "Memory per
-# rank"): an invented 512 x 512 lattice, 2 x 2 traits, 4 neighbours, cells in a corner only
-# (memory does not depend on where the cells are, and the steps stay cheap), 30 steps, so
-# that the bands are recut and rows change owner. Prints the peak resident set (VmHWM, from
+# rank"): an invented 512 x 512 lattice, 2 x 2 traits, 4 neighbours, a few cells in every
+# patch (so that the bands, cut by cost, stay near equal; few cells keep the steps cheap),
+# 30 steps, so that the bands are recut and rows change owner. Prints the peak resident set (VmHWM, from
 # /usr/bin/time's "maximum resident set size") of the plain run and of every rank.
 #
 # usage: tests/bench/mpi_memory.sh build/tessera [RANKS] [SIZE]
@@ -29,9 +29,9 @@ height = $n
 neighbourhood = 4
 boundary = "periodic"
 [[inoculum]]
-where = "rect:0,0,15,15"
+where = "all"
 trait = [0.0, 0.0]
-active = 500
+active = 5
 [run]
 time_unit = "plain"
 until = 0.6
