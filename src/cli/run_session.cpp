@@ -48,6 +48,14 @@ extern "C" void on_interrupt(int signal) {
     interrupt_signal = signal;
 }
 
+// SIGINT, SIGTERM and SIGUSR1 stop the run at a step boundary with a checkpoint. SIGUSR1 is
+// for runs under Open MPI's mpirun, which passes SIGUSR1 on to the ranks and waits for them,
+// but kills them 1 s after passing on a SIGTERM (docs/guide.md "Running on a cluster"); it
+// ends the run as SIGTERM does, with exit code 143.
+void catch_stop_signals(bool on) {
+    for (int signal : {SIGINT, SIGTERM, SIGUSR1}) std::signal(signal, on ? on_interrupt : SIG_DFL);
+}
+
 // One replicate's outputs, written as the run goes and flushed after every output time, so a
 // long run can be read while it runs. After an output time, once checkpoint_every seconds of
 // wall time have passed since the last one, it hands a checkpoint section to the keeper.
@@ -161,8 +169,7 @@ int follow(const Scenario& scenario, const Checkpoint* from, const SessionOption
     if (go >= 0) return go;
     interrupted = false;
     interrupt_signal = 0;
-    std::signal(SIGINT, on_interrupt);
-    std::signal(SIGTERM, on_interrupt);
+    catch_stop_signals(true);
     const int R = from ? static_cast<int>(from->replicates.size()) : options.replicates;
     for (int r = 0; r < R; ++r) {
         const ReplicateCheckpoint* begin = from ? &from->replicates[static_cast<std::size_t>(r)] : nullptr;
@@ -178,8 +185,7 @@ int follow(const Scenario& scenario, const Checkpoint* from, const SessionOption
             interrupted = true;  // rank 0 reports it; the later replicates stop at once, as there
         }
     }
-    std::signal(SIGINT, SIG_DFL);
-    std::signal(SIGTERM, SIG_DFL);
+    catch_stop_signals(false);
     cluster::max_over_ranks(interrupt_signal.load());  // rank 0 names the signal any rank had
     return cluster::code_of_rank0(0);
 }
@@ -243,8 +249,7 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
 
     interrupted = false;
     interrupt_signal = 0;
-    std::signal(SIGINT, on_interrupt);
-    std::signal(SIGTERM, on_interrupt);
+    catch_stop_signals(true);
 
     Progress progress(R, !options.quiet && Progress::stderr_is_terminal());
     std::mutex failure_mutex;
@@ -338,16 +343,14 @@ int report(const Scenario& scenario, const fs::path& dir, CsvOutput& series, Csv
     bool complete = failure.empty();
     for (char f : finished) complete = complete && f;
     if (complete) {
-        std::signal(SIGINT, SIG_DFL);
-        std::signal(SIGTERM, SIG_DFL);
+        catch_stop_signals(false);
         if (!series.finish() || !habitat_series.finish() || !write_run_ensemble(dir, scenario, R)) return 2;
         if (!options.quiet) std::cout << "outputs written to " << dir.string() << "/\n";
         return 0;
     }
     series.close();
     habitat_series.close();
-    std::signal(SIGINT, SIG_DFL);
-    std::signal(SIGTERM, SIG_DFL);
+    catch_stop_signals(false);
     if (!failure.empty()) {
         std::cerr << "error: " << failure << "\n";
         if (limit_replicate >= 0)
@@ -360,11 +363,11 @@ int report(const Scenario& scenario, const fs::path& dir, CsvOutput& series, Csv
         return 2;
     }
     const int signal = interrupt_signal.load();
-    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : "SIGINT") << ") at "
+    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : signal == SIGUSR1 ? "SIGUSR1" : "SIGINT") << ") at "
               << (scenario.time_unit == TimeUnit::logK ? "t/lnK = " : "t = ") << stopped_at[0]
               << (R > 1 ? " (replicate 0)" : "") << "; outputs and checkpoint are in " << dir.string()
               << "/\ncontinue with: tessera resume " << dir.string() << "\n";
-    return 128 + (signal ? signal : SIGINT);
+    return 128 + (signal == SIGUSR1 ? SIGTERM : signal ? signal : SIGINT);
 }
 
 }  // namespace

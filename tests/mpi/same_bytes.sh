@@ -14,8 +14,6 @@ launch=("$mpirun_bin" --oversubscribe)
 [ "$(id -u)" = 0 ] && launch+=(--allow-run-as-root)
 # Containers often forbid the cross-memory attach of Open MPI's shared-memory transport.
 export OMPI_MCA_btl_vader_single_copy_mechanism=none
-# mpirun gives ranks this many seconds between its SIGTERM and its SIGKILL (default 1).
-sigkill_grace=(--mca odls_base_sigkill_timeout 60)
 
 fail() { echo "FAIL: $*" >&2; exit 1; }
 same() {  # same DIR_A DIR_B [SKIP]: every output file byte for byte (checkpoint.bin has the state)
@@ -71,11 +69,13 @@ case $case in
     # 3 ranks stopped by SIGTERM to mpirun (which passes it on and gives the ranks 1 s before
     # its SIGKILL; mpirun itself then exits 1), resumed on 2 ranks; 4 ranks stopped by
     # SIGTERM to every rank (as a scheduler does; mpirun then exits with the ranks' 143),
-    # resumed as one plain process. Both must end with the bytes of an uninterrupted run.
+    # resumed as one plain process; 2 ranks stopped by SIGUSR1 to mpirun (which passes it on
+    # and waits: the ranks stop as for SIGTERM, and mpirun exits with their 143), resumed on 3
+    # ranks. Each must end with the bytes of an uninterrupted run.
     scenario=$maps/tube-wall/scenario.toml
     set=(--set run.until=2.0 --set output.fields_every=0.25 --set output.frames_every=0.5)
     "$tessera" run "$scenario" --out plain --quiet "${set[@]}"
-    for plan in 3:2:launcher 4:0:ranks; do
+    for plan in 3:2:launcher 4:0:ranks 2:3:usr1; do
         IFS=: read -r from to target <<< "$plan"
         dir=stop$from
         "${launch[@]}" -np "$from" "$tessera" run "$scenario" --out "$dir" --quiet "${set[@]}" 2> "$dir.err" &
@@ -86,13 +86,19 @@ case $case in
             [ -f "$dir/series.csv" ] && [ "$(wc -l < "$dir/series.csv")" -gt 12 ] && break
             sleep 0.025
         done
-        if [ "$target" = launcher ]; then kill -TERM "$pid"; else kill -TERM $(children "$pid"); fi
+        case $target in
+          launcher) kill -TERM "$pid" ;;
+          usr1) kill -USR1 "$pid" ;;
+          ranks) kill -TERM $(children "$pid") ;;
+        esac
         code=0
         wait "$pid" || code=$?
         [ "$code" != 0 ] || fail "$case: the $from-rank run was not interrupted (it finished first)"
-        if [ "$target" = ranks ]; then
-            [ "$code" = 143 ] || { cat "$dir.err" >&2; fail "$case: SIGTERM to the ranks: mpirun exited $code, not 143"; }
-            grep -q "interrupted (SIGTERM)" "$dir.err" || { cat "$dir.err" >&2; fail "$case: rank 0 did not report the interrupt"; }
+        if [ "$target" != launcher ]; then
+            [ "$code" = 143 ] || { cat "$dir.err" >&2; fail "$case: $target: mpirun exited $code, not 143"; }
+            signal=SIGTERM
+            [ "$target" = usr1 ] && signal=SIGUSR1
+            grep -q "interrupted ($signal)" "$dir.err" || { cat "$dir.err" >&2; fail "$case: $target: rank 0 did not report the interrupt"; }
         fi
         if [ "$to" = 0 ]; then
             "$tessera" resume "$dir" --quiet
