@@ -264,8 +264,8 @@ void Engine::migration_phase(double dt) {
     // The books of the band's patches, [p - first].
     for (auto* books : {&s.lost_per_patch, &s.sent_per_patch, &s.received_per_patch}) books->assign(end - first, 0);
     const auto box_of = [&](std::size_t p) {
-        const int row = static_cast<int>(p / W);
-        return s.outbox.data() + (halo_slot(band_, H, row) * W + p % W) * per_patch;
+        if (p >= first && p < end) return s.outbox.data() + (p - first + W) * per_patch;  // most calls
+        return s.outbox.data() + (halo_slot(band_, H, static_cast<int>(p / W)) * W + p % W) * per_patch;
     };
     const double rate[2] = {scenario_.rates.migration, scenario_.rates.migration_dormant};
     const StreamKey base{scenario_.seed, replicate_, 0};
