@@ -142,6 +142,28 @@ case $case in
     [ ! -e spatial ] || fail "exact-spatial on 2 ranks wrote an output directory"
     [ "$code_rows" = 2 ] || fail "a 1-row lattice on 3 ranks exited $code_rows, not 2"
     grep -q "too few to give each" rows.err || fail "a 1-row lattice on 3 ranks: no clear message: $(cat rows.err)" ;;
+  cell-limit)
+    # A population without bound stops at the cell limit (docs/reliability.md): on 2 and 3
+    # ranks rank 0, which holds every patch once the bands are gathered, names the same patch
+    # and writes the same outputs and checkpoint as a plain run, exit code 2; the other ranks
+    # hold their band only and stop with it.
+    printf '%s\n' '[rates]' 'competition = 0' 'migration = 0.5' '[scale]' 'K = 1e4' '[lattice]' 'width = 3' \
+        'height = 4' 'boundary = "periodic"' '[[inoculum]]' 'where = "patch:2,1"' 'trait = [0.0, 0.0]' 'active = 100' \
+        '[run]' 'until = 6' > unbounded.toml
+    set +e
+    "$tessera" run unbounded.toml --out plain --quiet 2> plain.err
+    code_plain=$?
+    set -e
+    [ "$code_plain" = 2 ] || fail "$case: the plain run exited $code_plain, not 2"
+    for n in 2 3; do
+        set +e
+        ranks "$n" run unbounded.toml --out "np$n" --quiet 2> "np$n.err"
+        code=$?
+        set -e
+        [ "$code" = 2 ] || { cat "np$n.err" >&2; fail "$case: $n ranks exited $code, not 2"; }
+        grep -qF "$(head -1 plain.err)" "np$n.err" || { cat "np$n.err" >&2; fail "$case: $n ranks: not the plain run's message"; }
+        same plain "np$n"
+    done ;;
   *) fail "unknown case $case" ;;
 esac
 echo "ok: $case"
