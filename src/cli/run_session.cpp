@@ -48,6 +48,14 @@ extern "C" void on_interrupt(int signal) {
     interrupt_signal = signal;
 }
 
+// SIGINT, SIGTERM and SIGUSR1 stop the run at a step boundary with a checkpoint. SIGUSR1 is
+// for runs under Open MPI's mpirun, which passes SIGUSR1 on to the ranks and waits for them,
+// but kills them 1 s after passing on a SIGTERM (docs/guide.md "Running on a cluster"); it
+// ends the run as SIGTERM does, with exit code 143.
+void catch_stop_signals(bool on) {
+    for (int signal : {SIGINT, SIGTERM, SIGUSR1}) std::signal(signal, on ? on_interrupt : SIG_DFL);
+}
+
 // One replicate's outputs, written as the run goes and flushed after every output time, so a
 // long run can be read while it runs. After an output time, once checkpoint_every seconds of
 // wall time have passed since the last one, it hands a checkpoint section to the keeper.
@@ -150,9 +158,10 @@ std::string cluster_refusal(const Scenario& scenario) {
     return {};
 }
 
-void attach_partition(Engine& engine, std::unique_ptr<LatticePartition>& partition, const Scenario& scenario) {
-    partition = cluster::lattice_partition(scenario.height, scenario.boundary == Boundary::periodic);
-    engine.set_partition(partition.get());
+// The bands of a run over the ranks (nothing for a plain process); the Engine takes it at
+// construction, so that a rank other than 0 never holds more than its band.
+std::unique_ptr<LatticePartition> partition_of(const Scenario& scenario) {
+    return cluster::lattice_partition(scenario.height, scenario.boundary == Boundary::periodic);
 }
 
 int follow(const Scenario& scenario, const Checkpoint* from, const SessionOptions& options) {
@@ -160,17 +169,15 @@ int follow(const Scenario& scenario, const Checkpoint* from, const SessionOption
     if (go >= 0) return go;
     interrupted = false;
     interrupt_signal = 0;
-    std::signal(SIGINT, on_interrupt);
-    std::signal(SIGTERM, on_interrupt);
+    catch_stop_signals(true);
     const int R = from ? static_cast<int>(from->replicates.size()) : options.replicates;
     for (int r = 0; r < R; ++r) {
         const ReplicateCheckpoint* begin = from ? &from->replicates[static_cast<std::size_t>(r)] : nullptr;
         if (begin && begin->stage == Stage::finished) continue;
-        Engine engine(scenario, static_cast<std::uint32_t>(r));
+        const std::unique_ptr<LatticePartition> partition = partition_of(scenario);
+        Engine engine(scenario, static_cast<std::uint32_t>(r), partition.get());
         const bool resumed = begin && begin->stage == Stage::running;
         if (resumed) engine.restore(begin->state);  // rank 0 reports a checkpoint that does not fit
-        std::unique_ptr<LatticePartition> partition;
-        attach_partition(engine, partition, scenario);
         NoOutputs none;
         try {
             engine.run(none, &interrupted, resumed);
@@ -178,8 +185,7 @@ int follow(const Scenario& scenario, const Checkpoint* from, const SessionOption
             interrupted = true;  // rank 0 reports it; the later replicates stop at once, as there
         }
     }
-    std::signal(SIGINT, SIG_DFL);
-    std::signal(SIGTERM, SIG_DFL);
+    catch_stop_signals(false);
     cluster::max_over_ranks(interrupt_signal.load());  // rank 0 names the signal any rank had
     return cluster::code_of_rank0(0);
 }
@@ -243,8 +249,7 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
 
     interrupted = false;
     interrupt_signal = 0;
-    std::signal(SIGINT, on_interrupt);
-    std::signal(SIGTERM, on_interrupt);
+    catch_stop_signals(true);
 
     Progress progress(R, !options.quiet && Progress::stderr_is_terminal());
     std::mutex failure_mutex;
@@ -261,7 +266,8 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
             return;
         }
         try {
-            Engine engine(scenario, static_cast<std::uint32_t>(r));
+            const std::unique_ptr<LatticePartition> partition = partition_of(scenario);
+            Engine engine(scenario, static_cast<std::uint32_t>(r), partition.get());
             const bool resumed = begin.stage == Stage::running;
             if (resumed) {
                 try {
@@ -271,8 +277,6 @@ int simulate(const Scenario& scenario, const fs::path& dir, const Checkpoint* fr
                                              ": " + e.what() + "; the file cannot be used");
                 }
             }
-            std::unique_ptr<LatticePartition> partition;
-            attach_partition(engine, partition, scenario);
             std::unique_ptr<FieldsWriter> fields;
             if (scenario.fields_every > 0) {
                 const std::string path = (dir / fields_name(r)).string();
@@ -339,16 +343,14 @@ int report(const Scenario& scenario, const fs::path& dir, CsvOutput& series, Csv
     bool complete = failure.empty();
     for (char f : finished) complete = complete && f;
     if (complete) {
-        std::signal(SIGINT, SIG_DFL);
-        std::signal(SIGTERM, SIG_DFL);
+        catch_stop_signals(false);
         if (!series.finish() || !habitat_series.finish() || !write_run_ensemble(dir, scenario, R)) return 2;
         if (!options.quiet) std::cout << "outputs written to " << dir.string() << "/\n";
         return 0;
     }
     series.close();
     habitat_series.close();
-    std::signal(SIGINT, SIG_DFL);
-    std::signal(SIGTERM, SIG_DFL);
+    catch_stop_signals(false);
     if (!failure.empty()) {
         std::cerr << "error: " << failure << "\n";
         if (limit_replicate >= 0)
@@ -361,11 +363,11 @@ int report(const Scenario& scenario, const fs::path& dir, CsvOutput& series, Csv
         return 2;
     }
     const int signal = interrupt_signal.load();
-    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : "SIGINT") << ") at "
+    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : signal == SIGUSR1 ? "SIGUSR1" : "SIGINT") << ") at "
               << (scenario.time_unit == TimeUnit::logK ? "t/lnK = " : "t = ") << stopped_at[0]
               << (R > 1 ? " (replicate 0)" : "") << "; outputs and checkpoint are in " << dir.string()
               << "/\ncontinue with: tessera resume " << dir.string() << "\n";
-    return 128 + (signal ? signal : SIGINT);
+    return 128 + (signal == SIGUSR1 ? SIGTERM : signal ? signal : SIGINT);
 }
 
 }  // namespace

@@ -1,7 +1,8 @@
 // LatticePartition over MPI ranks: bands of whole rows in rank order (core/lattice_partition.hpp).
-// Every rank holds the whole lattice's arrays and steps only its band; the halo exchange
-// moves the migrant boxes of the rows next to each band, and share_rows gathers the bands
-// at output times, which is also how rows change owner when the bands move.
+// Each rank steps and holds only its band (rank 0 holds the whole lattice for the files); the
+// halo exchange moves the migrant boxes of the rows next to each band, gather_rows brings the
+// bands to rank 0 at output times, and move_rows sends rows that change band to their new
+// owner, point to point.
 #pragma once
 
 #include <mpi.h>
@@ -19,9 +20,10 @@ public:
     int processes() const override { return size_; }
     int process() const override { return rank_; }
     RowBand band() const override { return {start_[rank_], start_[rank_ + 1]}; }
-    void rebalance(const std::vector<double>& row_cost) override;
+    void rebalance(std::vector<double>& row_cost) override;
     void exchange_rows(std::int64_t* data, std::size_t values_per_row) override;
-    void share_rows(std::uint64_t* data, std::size_t values_per_row) override;
+    void gather_rows(std::uint64_t* data, std::size_t values_per_row) override;
+    void move_rows(const std::uint64_t* before, std::uint64_t* after, std::size_t values_per_row) override;
     void sum(std::uint64_t* values, int count) override;
     void agree(bool& stop, double& largest) override;
 
@@ -40,6 +42,7 @@ private:
     int rank_ = 0;
     int size_ = 1;
     std::vector<int> start_;
+    std::vector<int> start_before_;  // the bands before the last rebalance
     std::vector<MPI_Request> requests_;
 };
 

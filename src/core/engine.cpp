@@ -56,23 +56,25 @@ bool reached(double t, double target) { return t >= target - 1e-12 * std::max(1.
 
 }  // namespace
 
-Engine::Engine(const Scenario& scenario, std::uint32_t replicate)
+Engine::Engine(const Scenario& scenario, std::uint32_t replicate, LatticePartition* partition)
     : scenario_(scenario),
       traits_(scenario.dormancy_axis, scenario.transfer_axis),
       rates_(traits_, scenario.rates, scenario.K),
-      lattice_(scenario.width, scenario.height, traits_.size()),
+      lattice_(held_lattice(scenario, traits_.size(), partition)),
       timeline_(scenario_),
       neighbourhood_(scenario.width, scenario.height, scenario.neighbourhood, scenario.boundary),
       replicate_(replicate),
-      patch_counts_(lattice_.patches()),
+      patch_counts_(lattice_.held_patches()),
       scratch_(std::make_unique<Scratch>(traits_, rates_, scenario.K)) {
     if (scenario_.habitats.empty()) scenario_.habitats.push_back(Habitat{});
     if (scenario_.habitat_of_patch.size() != lattice_.patches()) {
         scenario_.habitat_of_patch.assign(lattice_.patches(), 0);
     }
     class_conditions_ = timeline_.at(0.0);
-    band_ = {0, lattice_.height()};
+    partition_ = partition;
+    band_ = partition_ ? partition_->band() : RowBand{0, lattice_.height()};
     inoculate();
+    if (partition_) start_partition();
 #ifdef TESSERA_VALIDATE
     scratch_->validator.emplace(scenario_.source_path, scenario_.seed, replicate_);
 #endif
@@ -84,7 +86,9 @@ double Engine::time_logK() const { return time_ / std::log(scenario_.K); }
 double Engine::until() const { return scenario_.to_plain(scenario_.until); }
 
 void Engine::inoculate() {
+    const std::size_t first = lattice_.first_patch(), end = first + lattice_.held_patches();
     for_each_inoculum_cell(scenario_, traits_, class_conditions_, [&](std::size_t p, int trait, double active, double dormant) {
+        if (p < first || p >= end) return;  // another process's band
         lattice_.active(p)[trait] += static_cast<std::int64_t>(std::llround(active));
         lattice_.dormant(p)[trait] += static_cast<std::int64_t>(std::llround(dormant));
     });
@@ -157,7 +161,12 @@ void Engine::advance_to(double t_end, const std::atomic<bool>* stop) {
                 return;
             }
             const auto end = step_end_below_limit(*this, next, most);
-            if (!end) share_state();  // so that every process names the same patch as it throws
+            if (!end) {
+                share_state();  // so that process 0 sees every patch and names the fullest as it throws
+                if (partition_->process() != 0)
+                    throw CellLimitError("a patch could pass the cell limit in the next step (process 0 names it)",
+                                         time_, 0, 0);
+            }
             next = end ? *end : limit_step(*this, next);
         } else {
             next = limit_step(*this, next);
@@ -215,6 +224,7 @@ void Engine::local_phase(double dt) {
     const int T = traits_.size();
     const StreamKey base{scenario_.seed, replicate_, 0};
     const std::size_t W = static_cast<std::size_t>(lattice_.width());
+    const std::size_t held = lattice_.first_patch();
     parallel_for(band_.first * W, band_.end * W, [&](std::size_t p) {
         std::int64_t* a = lattice_.active(p);
         std::int64_t* d = lattice_.dormant(p);
@@ -226,9 +236,9 @@ void Engine::local_phase(double dt) {
         if (scenario_.method == Method::leap ||
             (scenario_.method == Method::auto_select &&
              leap.total_rate(a, d, conditions(p)) * dt > auto_leap_events)) {
-            leap.advance(a, d, conditions(p), dt, rng, patch_counts_[p]);
+            leap.advance(a, d, conditions(p), dt, rng, patch_counts_[p - held]);
         } else {
-            scratch_->exact.local().advance(a, d, conditions(p), dt, rng, patch_counts_[p]);
+            scratch_->exact.local().advance(a, d, conditions(p), dt, rng, patch_counts_[p - held]);
 #ifdef TESSERA_VALIDATE
             scratch_->validator->kept_sums(scratch_->exact.local().check_kept_sums(), p, lattice_.width());
 #endif
@@ -239,20 +249,24 @@ void Engine::local_phase(double dt) {
 void Engine::migration_phase(double dt) {
     const int T = traits_.size();
     const int dirs = neighbourhood_.size();
-    const std::size_t P = lattice_.patches();
     const std::size_t per_patch = static_cast<std::size_t>(dirs) * 2 * T;
     Scratch& s = *scratch_;
-    // Only this band's patches are stepped: only their books and boxes are cleared (the
-    // rows just outside it are filled by the exchange below; no other row is read).
+    // Only this band's patches are stepped, and only their books and boxes are kept: the
+    // boxes in halo_slot() order, this band's rows with a row of room either side for the
+    // boxes of the rows just outside it, filled by the exchange below (no other row is read).
     const std::size_t W = static_cast<std::size_t>(lattice_.width());
     const std::size_t first = band_.first * W, end = band_.end * W;
-    s.outbox.resize(P * per_patch);
-    std::fill(s.outbox.begin() + static_cast<std::ptrdiff_t>(first * per_patch),
-              s.outbox.begin() + static_cast<std::ptrdiff_t>(end * per_patch), 0);
-    for (auto* books : {&s.lost_per_patch, &s.sent_per_patch, &s.received_per_patch}) {
-        books->resize(P);
-        std::fill(books->begin() + static_cast<std::ptrdiff_t>(first), books->begin() + static_cast<std::ptrdiff_t>(end), 0);
-    }
+    const std::size_t rows = static_cast<std::size_t>(band_.end - band_.first);
+    const int H = lattice_.height();
+    s.outbox.resize((rows + 2) * W * per_patch);
+    std::fill(s.outbox.begin() + static_cast<std::ptrdiff_t>(W * per_patch),
+              s.outbox.begin() + static_cast<std::ptrdiff_t>((rows + 1) * W * per_patch), 0);
+    // The books of the band's patches, [p - first].
+    for (auto* books : {&s.lost_per_patch, &s.sent_per_patch, &s.received_per_patch}) books->assign(end - first, 0);
+    const auto box_of = [&](std::size_t p) {
+        if (p >= first && p < end) return s.outbox.data() + (p - first + W) * per_patch;  // most calls
+        return s.outbox.data() + (halo_slot(band_, H, static_cast<int>(p / W)) * W + p % W) * per_patch;
+    };
     const double rate[2] = {scenario_.rates.migration, scenario_.rates.migration_dormant};
     const StreamKey base{scenario_.seed, replicate_, 0};
 
@@ -264,6 +278,7 @@ void Engine::migration_phase(double dt) {
         StreamKey key = base;
         key.patch = static_cast<std::uint32_t>(p);
         Rng rng(key, step_, Phase::emigration);
+        std::int64_t* out = box_of(p);
         const int col = static_cast<int>(p % lattice_.width());
         const int row = static_cast<int>(p / lattice_.width());
         for (int c = 0; c < 2; ++c) {
@@ -283,13 +298,13 @@ void Engine::migration_phase(double dt) {
                     if (to.kind == Neighbourhood::Target::off_edge) {
                         if (scenario_.boundary != Boundary::absorbing) continue;  // reflected
                         counts[c][i] -= n;
-                        s.lost_per_patch[p] += static_cast<std::uint64_t>(n);
+                        s.lost_per_patch[p - first] += static_cast<std::uint64_t>(n);
                         continue;
                     }
                     if (conditions(static_cast<std::size_t>(to.patch)).capacity <= 0) continue;  // wall
                     counts[c][i] -= n;
-                    s.outbox[p * per_patch + (static_cast<std::size_t>(dir) * 2 + c) * T + i] += n;
-                    s.sent_per_patch[p] += static_cast<std::uint64_t>(n);
+                    out[(static_cast<std::size_t>(dir) * 2 + c) * T + i] += n;
+                    s.sent_per_patch[p - first] += static_cast<std::uint64_t>(n);
                 }
             }
         }
@@ -306,43 +321,56 @@ void Engine::migration_phase(double dt) {
         for (int dir = 0; dir < dirs; ++dir) {
             const auto from = neighbourhood_.step(col, row, Neighbourhood::opposite(dir));
             if (from.kind != Neighbourhood::Target::patch) continue;
-            const std::int64_t* box =
-                s.outbox.data() + static_cast<std::size_t>(from.patch) * per_patch;
+            const std::int64_t* box = box_of(static_cast<std::size_t>(from.patch));
             for (int c = 0; c < 2; ++c) {
                 const std::int64_t* in = box + (static_cast<std::size_t>(dir) * 2 + c) * T;
                 for (int i = 0; i < T; ++i) {
                     counts[c][i] += in[i];
-                    s.received_per_patch[q] += static_cast<std::uint64_t>(in[i]);
+                    s.received_per_patch[q - first] += static_cast<std::uint64_t>(in[i]);
                 }
             }
         }
     });
-    for (std::size_t p = first; p < end; ++p) {
+    for (std::size_t p = 0; p < end - first; ++p) {
         lost_ += s.lost_per_patch[p];
         migrants_ += s.sent_per_patch[p];
     }
 }
 
+void Engine::release_step_buffers() {
+    Scratch& s = *scratch_;
+    for (auto* books : {&s.lost_per_patch, &s.sent_per_patch, &s.received_per_patch}) *books = {};
+    s.outbox = {};
+}
+
 // --- checkpoints --------------------------------------------------------------------------
 Engine::State Engine::state() const {
+    if (!lattice_.whole())
+        throw std::logic_error("Engine::state(): this process holds its band of rows only; process 0 holds the whole");
     return {time_, step_, lattice_.all_active(), lattice_.all_dormant(), patch_counts_, lost_, migrants_,
             class_conditions_};
 }
 
 void Engine::restore(const State& s) {
-    const std::size_t cells = lattice_.patches() * static_cast<std::size_t>(lattice_.traits());
+    const std::size_t T = static_cast<std::size_t>(lattice_.traits());
+    const std::size_t cells = lattice_.patches() * T;
     if (s.active.size() != cells || s.dormant.size() != cells || s.patch_counts.size() != lattice_.patches() ||
         s.class_conditions.size() != class_conditions_.size()) {
         throw std::invalid_argument("the saved state does not fit this scenario's lattice, traits or habitats");
     }
     time_ = s.time;
     step_ = s.step;
-    std::copy(s.active.begin(), s.active.end(), lattice_.active(0));
-    std::copy(s.dormant.begin(), s.dormant.end(), lattice_.dormant(0));
-    patch_counts_ = s.patch_counts;
+    // The held rows only.
+    const auto first = static_cast<std::ptrdiff_t>(lattice_.first_patch());
+    const auto held = static_cast<std::ptrdiff_t>(lattice_.held_patches());
+    const auto cell = static_cast<std::ptrdiff_t>(T);
+    std::copy(s.active.begin() + first * cell, s.active.begin() + (first + held) * cell, lattice_.active(lattice_.first_patch()));
+    std::copy(s.dormant.begin() + first * cell, s.dormant.begin() + (first + held) * cell, lattice_.dormant(lattice_.first_patch()));
+    std::copy(s.patch_counts.begin() + first, s.patch_counts.begin() + first + held, patch_counts_.begin());
     lost_ = s.lost;
     migrants_ = s.migrants;
     class_conditions_ = s.class_conditions;
+    if (partition_) start_partition();  // bands from the restored event counts
 }
 // ------------------------------------------------------------------------------------------
 

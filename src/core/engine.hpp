@@ -43,7 +43,9 @@ public:
 
 class Engine {
 public:
-    Engine(const Scenario& scenario, std::uint32_t replicate = 0);
+    // `partition`: this engine is one process of a run split into bands of rows (below);
+    // nullptr: a plain process, which steps and holds every row.
+    Engine(const Scenario& scenario, std::uint32_t replicate = 0, LatticePartition* partition = nullptr);
     ~Engine();
 
     // Runs from the current time to run.until, handing the state to `observer` at t = 0 and
@@ -91,23 +93,27 @@ public:
         std::uint64_t lost = 0, migrants = 0;
         std::vector<PatchConditions> class_conditions;
     };
+    // The whole lattice's: on a plain process, or on process 0 of a split run once run()
+    // returned (the other processes hold their band only: std::logic_error there).
     State state() const;
     // Throws std::invalid_argument (nothing changed) when the sizes do not fit this scenario.
+    // A split run's processes each take their band's rows (a collective call).
     void restore(const State& state);
     // ------------------------------------------------------------------------------------
 
     // --- runs split over processes (core/lattice_partition.hpp) -------------------------
-    // From now on this engine steps only its partition's band of rows and agrees with the
-    // other processes at every step; at every output time, every return from run() and
-    // every balance_every_steps steps the whole state is shared, so that observers and
-    // state() see every patch. Call after restore() and before run(); every process of the
-    // partition must make the same calls. Throws std::invalid_argument for the
-    // exact-spatial method (serial by nature) on more than one process, or for a lattice
-    // with fewer rows than processes. nullptr: a plain process again.
-    void set_partition(LatticePartition* partition);
-    // Steps between two shares of the state that rebalance the bands from the event counts
+    // Given to the constructor, the partition makes this engine step only its band of rows
+    // and agree with the other processes at every step. A process other than 0 holds the
+    // counts, event counts and migrant boxes of its band only (and the boxes of the rows just
+    // outside it); process 0 holds every patch's counts and event counts, gathered there at
+    // every output time, every return from run() and every balance_every_steps steps, so
+    // that its observers and state() see every patch. Every process of the partition must
+    // make the same calls (the constructor, restore() and run() are collective). The
+    // constructor throws std::invalid_argument for the exact-spatial method (serial by
+    // nature) on more than one process, or for a lattice with fewer rows than processes.
+    // Steps between two gathers of the state that rebalance the bands from the event counts
     // since the last one: often enough to follow a moving front, rare enough that the
-    // all-to-all share of a large lattice costs little next to the steps.
+    // gather of a large lattice costs little next to the steps.
     static constexpr std::uint64_t balance_every_steps = 64;
     // ------------------------------------------------------------------------------------
 
@@ -119,8 +125,12 @@ private:
     static constexpr double auto_leap_events = 300.0;
 
     bool stop_agreed(const std::atomic<bool>* stop);  // the same answer on every process
-    void share_state();                               // whole state everywhere, then rebalance
-    void rebalance();
+    void share_state();                               // whole state on process 0, then rebalance
+    void rebalance();                                 // new bands, and the rows moved to them
+    void start_partition();                           // the first bands, from the counts held
+    void move_band(RowBand old);                      // this band's rows to its new owner
+    void release_step_buffers();                      // migrant boxes and books, until the next step
+    static Lattice held_lattice(const Scenario& scenario, int traits, LatticePartition* partition);
     void step(double dt);
     void local_phase(double dt);
     void exact_spatial_step(double dt);
@@ -147,7 +157,8 @@ private:
     std::uint64_t migrants_ = 0;
 
     // The band this engine steps (every row without a partition), what it had when the
-    // state was last shared, and the stop every process agreed on.
+    // state was last shared, and the stop every process agreed on. patch_counts_ and
+    // events_at_balance_ cover the lattice's held rows (lattice_.first_patch() onwards).
     LatticePartition* partition_ = nullptr;
     RowBand band_;
     std::uint64_t shared_step_ = 0;

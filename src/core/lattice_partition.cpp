@@ -47,4 +47,10 @@ int band_of_row(const std::vector<int>& starts, int row) {
     return static_cast<int>(std::upper_bound(starts.begin(), starts.end(), row) - starts.begin()) - 1;
 }
 
+std::size_t halo_slot(RowBand band, int height, int row) {
+    if (row >= band.first && row < band.end) return static_cast<std::size_t>(row - band.first) + 1;
+    if (row == (band.first - 1 + height) % height) return 0;
+    return static_cast<std::size_t>(band.end - band.first) + 1;
+}
+
 }  // namespace tessera

@@ -14,8 +14,6 @@ launch=("$mpirun_bin" --oversubscribe)
 [ "$(id -u)" = 0 ] && launch+=(--allow-run-as-root)
 # Containers often forbid the cross-memory attach of Open MPI's shared-memory transport.
 export OMPI_MCA_btl_vader_single_copy_mechanism=none
-# mpirun gives ranks this many seconds between its SIGTERM and its SIGKILL (default 1).
-sigkill_grace=(--mca odls_base_sigkill_timeout 60)
 
 fail() { echo "FAIL: $*" >&2; exit 1; }
 same() {  # same DIR_A DIR_B [SKIP]: every output file byte for byte (checkpoint.bin has the state)
@@ -71,27 +69,36 @@ case $case in
     # 3 ranks stopped by SIGTERM to mpirun (which passes it on and gives the ranks 1 s before
     # its SIGKILL; mpirun itself then exits 1), resumed on 2 ranks; 4 ranks stopped by
     # SIGTERM to every rank (as a scheduler does; mpirun then exits with the ranks' 143),
-    # resumed as one plain process. Both must end with the bytes of an uninterrupted run.
+    # resumed as one plain process; 2 ranks stopped by SIGUSR1 to mpirun (which passes it on
+    # and waits: the ranks stop as for SIGTERM, and mpirun exits with their 143), resumed on 3
+    # ranks. Each must end with the bytes of an uninterrupted run.
     scenario=$maps/tube-wall/scenario.toml
     set=(--set run.until=2.0 --set output.fields_every=0.25 --set output.frames_every=0.5)
     "$tessera" run "$scenario" --out plain --quiet "${set[@]}"
-    for plan in 3:2:launcher 4:0:ranks; do
+    for plan in 3:2:launcher 4:0:ranks 2:3:usr1; do
         IFS=: read -r from to target <<< "$plan"
         dir=stop$from
         "${launch[@]}" -np "$from" "$tessera" run "$scenario" --out "$dir" --quiet "${set[@]}" 2> "$dir.err" &
         pid=$!
-        # Wait until the run is under way (its series has rows past t = 0), then stop it.
+        # Wait until the run is under way (its series has rows past t = 0), then stop it, early:
+        # the split run is fast (the whole run takes about a second), and it must not finish first.
         for _ in $(seq 400); do
-            [ -f "$dir/series.csv" ] && [ "$(wc -l < "$dir/series.csv")" -gt 40 ] && break
+            [ -f "$dir/series.csv" ] && [ "$(wc -l < "$dir/series.csv")" -gt 12 ] && break
             sleep 0.025
         done
-        if [ "$target" = launcher ]; then kill -TERM "$pid"; else kill -TERM $(children "$pid"); fi
+        case $target in
+          launcher) kill -TERM "$pid" ;;
+          usr1) kill -USR1 "$pid" ;;
+          ranks) kill -TERM $(children "$pid") ;;
+        esac
         code=0
         wait "$pid" || code=$?
         [ "$code" != 0 ] || fail "$case: the $from-rank run was not interrupted (it finished first)"
-        if [ "$target" = ranks ]; then
-            [ "$code" = 143 ] || { cat "$dir.err" >&2; fail "$case: SIGTERM to the ranks: mpirun exited $code, not 143"; }
-            grep -q "interrupted (SIGTERM)" "$dir.err" || { cat "$dir.err" >&2; fail "$case: rank 0 did not report the interrupt"; }
+        if [ "$target" != launcher ]; then
+            [ "$code" = 143 ] || { cat "$dir.err" >&2; fail "$case: $target: mpirun exited $code, not 143"; }
+            signal=SIGTERM
+            [ "$target" = usr1 ] && signal=SIGUSR1
+            grep -q "interrupted ($signal)" "$dir.err" || { cat "$dir.err" >&2; fail "$case: $target: rank 0 did not report the interrupt"; }
         fi
         if [ "$to" = 0 ]; then
             "$tessera" resume "$dir" --quiet
@@ -112,7 +119,7 @@ case $case in
         "${set[@]}" 2> hung.err &
     pid=$!
     for _ in $(seq 400); do
-        [ -f hung/series.csv ] && [ "$(wc -l < hung/series.csv)" -gt 40 ] && break
+        [ -f hung/series.csv ] && [ "$(wc -l < hung/series.csv)" -gt 12 ] && break
         sleep 0.025
     done
     kill -STOP "$(children "$pid" | sed -n 2p)"
@@ -135,6 +142,28 @@ case $case in
     [ ! -e spatial ] || fail "exact-spatial on 2 ranks wrote an output directory"
     [ "$code_rows" = 2 ] || fail "a 1-row lattice on 3 ranks exited $code_rows, not 2"
     grep -q "too few to give each" rows.err || fail "a 1-row lattice on 3 ranks: no clear message: $(cat rows.err)" ;;
+  cell-limit)
+    # A population without bound stops at the cell limit (docs/reliability.md): on 2 and 3
+    # ranks rank 0, which holds every patch once the bands are gathered, names the same patch
+    # and writes the same outputs and checkpoint as a plain run, exit code 2; the other ranks
+    # hold their band only and stop with it.
+    printf '%s\n' '[rates]' 'competition = 0' 'migration = 0.5' '[scale]' 'K = 1e4' '[lattice]' 'width = 3' \
+        'height = 4' 'boundary = "periodic"' '[[inoculum]]' 'where = "patch:2,1"' 'trait = [0.0, 0.0]' 'active = 100' \
+        '[run]' 'until = 6' > unbounded.toml
+    set +e
+    "$tessera" run unbounded.toml --out plain --quiet 2> plain.err
+    code_plain=$?
+    set -e
+    [ "$code_plain" = 2 ] || fail "$case: the plain run exited $code_plain, not 2"
+    for n in 2 3; do
+        set +e
+        ranks "$n" run unbounded.toml --out "np$n" --quiet 2> "np$n.err"
+        code=$?
+        set -e
+        [ "$code" = 2 ] || { cat "np$n.err" >&2; fail "$case: $n ranks exited $code, not 2"; }
+        grep -qF "$(head -1 plain.err)" "np$n.err" || { cat "np$n.err" >&2; fail "$case: $n ranks: not the plain run's message"; }
+        same plain "np$n"
+    done ;;
   *) fail "unknown case $case" ;;
 esac
 echo "ok: $case"
