@@ -21,6 +21,7 @@
 #include "cli/predict_models.hpp"
 #include "cli/progress.hpp"
 #include "cli/run_ensemble.hpp"
+#include "cli/stop_signals.hpp"
 #include "cluster/cluster.hpp"
 #include "core/count_limit.hpp"
 #include "core/engine.hpp"
@@ -48,13 +49,9 @@ extern "C" void on_interrupt(int signal) {
     interrupt_signal = signal;
 }
 
-// SIGINT, SIGTERM and SIGUSR1 stop the run at a step boundary with a checkpoint. SIGUSR1 is
-// for runs under Open MPI's mpirun, which passes SIGUSR1 on to the ranks and waits for them,
-// but kills them 1 s after passing on a SIGTERM (docs/guide.md "Running on a cluster"); it
-// ends the run as SIGTERM does, with exit code 143.
-void catch_stop_signals(bool on) {
-    for (int signal : {SIGINT, SIGTERM, SIGUSR1}) std::signal(signal, on ? on_interrupt : SIG_DFL);
-}
+// SIGINT, SIGTERM and SIGUSR1 stop the run at a step boundary with a checkpoint
+// (cli/stop_signals.hpp).
+void catch_stop_signals(bool on) { cli::catch_stop_signals(on ? on_interrupt : nullptr); }
 
 // One replicate's outputs, written as the run goes and flushed after every output time, so a
 // long run can be read while it runs. After an output time, once checkpoint_every seconds of
@@ -363,11 +360,11 @@ int report(const Scenario& scenario, const fs::path& dir, CsvOutput& series, Csv
         return 2;
     }
     const int signal = interrupt_signal.load();
-    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : signal == SIGUSR1 ? "SIGUSR1" : "SIGINT") << ") at "
+    std::cerr << "\ninterrupted (" << stop_signal_name(signal) << ") at "
               << (scenario.time_unit == TimeUnit::logK ? "t/lnK = " : "t = ") << stopped_at[0]
               << (R > 1 ? " (replicate 0)" : "") << "; outputs and checkpoint are in " << dir.string()
               << "/\ncontinue with: tessera resume " << dir.string() << "\n";
-    return 128 + (signal == SIGUSR1 ? SIGTERM : signal ? signal : SIGINT);
+    return stop_exit_code(signal);
 }
 
 }  // namespace

@@ -20,6 +20,7 @@
 
 #include "cli/output_directory.hpp"
 #include "cli/progress.hpp"
+#include "cli/stop_signals.hpp"
 #include "cli/sweep_ranks.hpp"
 #include "cli/sweep_report.hpp"
 #include "cli/sweep_task.hpp"
@@ -118,10 +119,10 @@ int finish_report(const fs::path& dir, const ParameterGrid& grid, const std::str
         return 0;
     }
     const int signal = stop_signal.load();
-    std::cerr << "\ninterrupted (" << (signal == SIGTERM ? "SIGTERM" : "SIGINT") << ") after " << first + written
+    std::cerr << "\ninterrupted (" << stop_signal_name(signal) << ") after " << first + written
               << " of " << points << " points; their rows are in " << dir.string()
               << "/\ncontinue with: tessera resume " << dir.string() << "\n";
-    return 128 + (signal ? signal : SIGINT);
+    return stop_exit_code(signal);
 }
 
 }  // namespace
@@ -150,12 +151,10 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
         tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
         stop_requested = false;
         stop_signal = 0;
-        std::signal(SIGINT, on_sweep_interrupt);
-        std::signal(SIGTERM, on_sweep_interrupt);
+        catch_stop_signals(on_sweep_interrupt);
         const int code = follow_sweep(make_sweep_work(loaded, m, static_cast<std::size_t>(start[1])), threads,
                                       {&stop_requested, &stop_signal});
-        std::signal(SIGINT, SIG_DFL);
-        std::signal(SIGTERM, SIG_DFL);
+        catch_stop_signals(nullptr);
         return code;
     }
     const std::vector<std::size_t> mine = shard_points(loaded.grid.size(), m.shard_index, m.shard_count);
@@ -221,8 +220,7 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
     tbb::global_control limit(tbb::global_control::max_allowed_parallelism, static_cast<std::size_t>(threads));
     stop_requested = false;
     stop_signal = 0;
-    std::signal(SIGINT, on_sweep_interrupt);
-    std::signal(SIGTERM, on_sweep_interrupt);
+    catch_stop_signals(on_sweep_interrupt);
     std::size_t stop_after = 0;
     if (const char* hook = std::getenv("TESSERA_SWEEP_STOP_AFTER")) stop_after = std::strtoull(hook, nullptr, 10);
 
@@ -372,8 +370,7 @@ int run_sweep(const LoadedGrid& loaded, const SweepManifest& m, const fs::path& 
     outcomes.close();
     finals.close();
     summary.close();
-    std::signal(SIGINT, SIG_DFL);
-    std::signal(SIGTERM, SIG_DFL);
+    catch_stop_signals(nullptr);
 
     const int code = finish_report(dir, loaded.grid, failure, first, next_to_write, count, mine.size(), options.quiet);
     if (lead) lead->end(code);

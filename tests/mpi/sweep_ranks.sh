@@ -99,7 +99,19 @@ case $case in
     [ "$code" = 143 ] || { cat term.err >&2; fail "$case: SIGTERM to rank 1: mpirun exited $code, not 143"; }
     grep -q "interrupted (SIGTERM) after" term.err || { cat term.err >&2; fail "$case: rank 0 did not report SIGTERM"; }
     "$tessera" resume term --quiet
-    same heavy-plain term ;;
+    same heavy-plain term
+    # SIGUSR1 to mpirun itself (what a batch script forwards: mpirun passes SIGUSR1 on and
+    # waits, where it kills the ranks 1 s after passing on a SIGTERM): 143, resumable.
+    "${launch[@]}" -np 2 "$tessera" "${heavy[@]}" --out usr1 --threads 1 2> usr1.err &
+    pid=$!
+    wait_rows usr1/outcomes.csv 2
+    kill -USR1 "$pid"
+    code=0
+    wait "$pid" || code=$?
+    [ "$code" = 143 ] || { cat usr1.err >&2; fail "$case: SIGUSR1 to mpirun: it exited $code, not 143"; }
+    grep -q "interrupted (SIGUSR1) after" usr1.err || { cat usr1.err >&2; fail "$case: rank 0 did not report SIGUSR1"; }
+    "$tessera" resume usr1 --quiet
+    same heavy-plain usr1 ;;
   hung-rank)
     # A rank that stops answering (SIGSTOP) makes rank 0 give up after TESSERA_RANK_TIMEOUT
     # seconds with a message naming it; the points written so far resume to the same bytes.
