@@ -39,8 +39,13 @@ Launch::Launch(int& argc, char**& argv) {
         }
         set_rank_timeout(seconds);
     }
-    MPI_Init(&argc, &argv);
+    // TBB worker threads exist in every rank, but only each rank's main thread calls MPI:
+    // the funnelled level says exactly that (plain MPI_Init promises a single thread).
+    int provided = MPI_THREAD_SINGLE;
+    MPI_Init_thread(&argc, &argv, MPI_THREAD_FUNNELED, &provided);
     started = true;
+    if (provided < MPI_THREAD_FUNNELED)
+        error_ = "this MPI library gives no thread support (MPI_THREAD_FUNNELED), which tessera's threads need";
     MPI_Comm_dup(MPI_COMM_WORLD, &world);
     MPI_Comm_rank(world, &world_rank);
     MPI_Comm_size(world, &world_size);
