@@ -8,10 +8,9 @@
 # usage: tests/bench/mpi_memory.sh build/tessera [RANKS] [SIZE]
 set -euo pipefail
 tessera=$(realpath "$1") ranks=${2:-2} n=${3:-512}
+mpirun_bin=mpirun case=bench
+source "$(dirname "${BASH_SOURCE[0]}")/../mpi/mpi_support.sh"  # launch=(mpirun ...)
 work=$(mktemp -d) && trap 'rm -rf "$work"' EXIT && cd "$work"
-launch=(mpirun --oversubscribe)
-[ "$(id -u)" = 0 ] && launch+=(--allow-run-as-root)
-export OMPI_MCA_btl_vader_single_copy_mechanism=none
 cat > big.toml <<TOML
 title = "MPI memory benchmark (invented)"
 [traits]

@@ -9,10 +9,9 @@
 # usage: tests/bench/mpi_scaling.sh build/tessera [STEPS]
 set -euo pipefail
 tessera=$(realpath "$1") steps=${2:-20}
+mpirun_bin=mpirun case=bench
+source "$(dirname "${BASH_SOURCE[0]}")/../mpi/mpi_support.sh"  # launch=(mpirun ...)
 work=$(mktemp -d) && trap 'rm -rf "$work"' EXIT && cd "$work"
-launch=(mpirun --oversubscribe)
-[ "$(id -u)" = 0 ] && launch+=(--allow-run-as-root)
-export OMPI_MCA_btl_vader_single_copy_mechanism=none
 W=256 H=256 T=4 dirs=4 sync=0.02
 cat > big.toml <<TOML
 title = "MPI scaling benchmark (invented)"

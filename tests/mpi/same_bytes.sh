@@ -8,35 +8,12 @@
 # usage: same_bytes.sh MPIRUN TESSERA MAPS_DIR CASE WORK_DIR
 set -euo pipefail
 mpirun_bin=$1 tessera=$2 maps=$3 case=$4 work=$5
+source "$(dirname "${BASH_SOURCE[0]}")/mpi_support.sh"
 rm -rf "$work" && mkdir -p "$work" && cd "$work"
 
-launch=("$mpirun_bin" --oversubscribe)
-[ "$(id -u)" = 0 ] && launch+=(--allow-run-as-root)
-# Containers often forbid the cross-memory attach of Open MPI's shared-memory transport.
-export OMPI_MCA_btl_vader_single_copy_mechanism=none
-
-fail() { echo "FAIL: $*" >&2; exit 1; }
-same() {  # same DIR_A DIR_B [SKIP]: every output file byte for byte (checkpoint.bin has the state)
-    local a=$1 b=$2 skip=${3:-none} f
-    for f in $(cd "$a" && find . -type f ! -name scenario.resolved.toml ! -name "$skip" | sort); do
-        cmp "$a/$f" "$b/$f" || fail "$case: $b/$f differs from $a/$f"
-    done
-    [ "$(cd "$a" && find . -type f | wc -l)" = "$(cd "$b" && find . -type f | wc -l)" ] ||
-        fail "$case: $b does not hold the same files as $a"
-}
-children() {  # children PID: the processes mpirun started, in order (from /proc: no procps needed)
-    local target=$1 stat rest ppid
-    for stat in /proc/[0-9]*/stat; do
-        rest=$(cat "$stat" 2>/dev/null) || continue
-        rest=${rest##*) }  # after "pid (comm) ": state, ppid, ...
-        read -r _ ppid _ <<< "$rest"
-        if [ "$ppid" = "$target" ]; then stat=${stat#/proc/}; echo "${stat%/stat}"; fi
-    done | sort -n
-}
-ranks() {  # ranks N tessera-arguments...
-    local n=$1; shift
-    "${launch[@]}" -np "$n" "$tessera" "$@"
-}
+# same DIR_A DIR_B [SKIP]: every output file byte for byte; scenario.resolved.toml records
+# the thread count, and checkpoint.bin holds the state, so a caller may skip it.
+same() { same_files "$1" "$2" scenario.resolved.toml ${3:+"$3"}; }
 
 case $case in
   tube-wall | soil-periodic-exact | soil-absorbing-leap | replicates)
@@ -82,10 +59,7 @@ case $case in
         pid=$!
         # Wait until the run is under way (its series has rows past t = 0), then stop it, early:
         # the split run is fast (the whole run takes about a second), and it must not finish first.
-        for _ in $(seq 400); do
-            [ -f "$dir/series.csv" ] && [ "$(wc -l < "$dir/series.csv")" -gt 12 ] && break
-            sleep 0.025
-        done
+        wait_rows "$dir/series.csv" 12
         case $target in
           launcher) kill -TERM "$pid" ;;
           usr1) kill -USR1 "$pid" ;;
@@ -118,10 +92,7 @@ case $case in
     TESSERA_RANK_TIMEOUT=2 "${launch[@]}" -x TESSERA_RANK_TIMEOUT -np 3 "$tessera" run "$scenario" --out hung --quiet \
         "${set[@]}" 2> hung.err &
     pid=$!
-    for _ in $(seq 400); do
-        [ -f hung/series.csv ] && [ "$(wc -l < hung/series.csv)" -gt 12 ] && break
-        sleep 0.025
-    done
+    wait_rows hung/series.csv 12
     kill -STOP "$(children "$pid" | sed -n 2p)"
     code=0
     wait "$pid" || code=$?

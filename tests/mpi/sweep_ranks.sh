@@ -9,42 +9,10 @@
 # usage: sweep_ranks.sh MPIRUN TESSERA MAPS_DIR CASE WORK_DIR
 set -euo pipefail
 mpirun_bin=$1 tessera=$2 maps=$3 case=$4 work=$5
+source "$(dirname "${BASH_SOURCE[0]}")/mpi_support.sh"
 rm -rf "$work" && mkdir -p "$work" && cd "$work"
 
-launch=("$mpirun_bin" --oversubscribe)
-[ "$(id -u)" = 0 ] && launch+=(--allow-run-as-root)
-# Containers often forbid the cross-memory attach of Open MPI's shared-memory transport.
-export OMPI_MCA_btl_vader_single_copy_mechanism=none
-
-fail() { echo "FAIL: $*" >&2; exit 1; }
-same() {  # same DIR_A DIR_B: every file byte for byte, and no file more or less
-    local a=$1 b=$2 f
-    for f in $(cd "$a" && find . -type f | sort); do
-        cmp "$a/$f" "$b/$f" || fail "$case: $b/$f differs from $a/$f"
-    done
-    [ "$(cd "$a" && find . -type f | wc -l)" = "$(cd "$b" && find . -type f | wc -l)" ] ||
-        fail "$case: $b does not hold the same files as $a"
-}
-children() {  # children PID: the processes mpirun started, in order (from /proc: no procps needed)
-    local target=$1 stat rest ppid
-    for stat in /proc/[0-9]*/stat; do
-        rest=$(cat "$stat" 2>/dev/null) || continue
-        rest=${rest##*) }
-        read -r _ ppid _ <<< "$rest"
-        if [ "$ppid" = "$target" ]; then stat=${stat#/proc/}; echo "${stat%/stat}"; fi
-    done | sort -n
-}
-ranks() {  # ranks N tessera-arguments...
-    local n=$1; shift
-    "${launch[@]}" -np "$n" "$tessera" "$@"
-}
-wait_rows() {  # wait_rows FILE N: until FILE has more than N lines (at most 10 s)
-    for _ in $(seq 400); do
-        [ -f "$1" ] && [ "$(wc -l < "$1")" -gt "$2" ] && return 0
-        sleep 0.025
-    done
-    return 0
-}
+same() { same_files "$1" "$2"; }  # same DIR_A DIR_B: every file, the resolved scenario too
 
 scenario=$maps/well-mixed/scenario.toml
 # 8 points x 3 replicates of a small stochastic run, with the limit beside and every series kept.
